@@ -1,0 +1,323 @@
+#include "rotorq/accuracy/sweeps.hpp"
+
+#include <algorithm>
+#include <cinttypes>
+#include <cmath>
+#include <cstdio>
+#include <random>
+
+#include "rotorq/ref/ref.hpp"
+#include "rotorq/rotorq.hpp"
+
+namespace rotorq::accuracy {
+
+double error_stats::rms() const {
+  return samples ? std::sqrt(sum_squares / static_cast<double>(samples)) : 0.0;
+}
+
+namespace {
+
+// The angle type that goes with each value format.
+template <typename Q>
+struct angle_for;
+template <>
+struct angle_for<q15> {
+  using type = turn16;
+};
+template <>
+struct angle_for<q31> {
+  using type = turn32;
+};
+
+template <typename Q>
+const char* format_name() {
+  return Q::fraction_bits == 15 ? "q15" : "q31";
+}
+
+template <typename Q>
+double lsb_error(Q computed, double exact) {
+  const double scaled = std::ldexp(exact, Q::fraction_bits);
+  const double target = std::clamp(scaled, static_cast<double>(Q::raw_min), static_cast<double>(Q::raw_max));
+  return static_cast<double>(computed.raw()) - target;
+}
+
+template <typename Raw>
+std::string hex(Raw raw) {
+  char text[24];
+  if constexpr (sizeof(Raw) == 2) {
+    std::snprintf(text, sizeof text, "0x%04x", static_cast<unsigned>(static_cast<uint16_t>(raw)));
+  } else {
+    std::snprintf(text, sizeof text, "0x%08" PRIx32, static_cast<uint32_t>(raw));
+  }
+  return text;
+}
+template <int F>
+std::string hex(fixed<F> x) {
+  return hex(x.raw());
+}
+template <int F>
+std::string describe(phases<fixed<F>> x) {
+  return "a=" + hex(x.a) + " b=" + hex(x.b) + " c=" + hex(x.c);
+}
+template <int F>
+std::string describe(stationary<fixed<F>> x) {
+  return "alpha=" + hex(x.alpha) + " beta=" + hex(x.beta);
+}
+template <int F>
+std::string describe(rotating<fixed<F>> x) {
+  return "d=" + hex(x.d) + " q=" + hex(x.q);
+}
+template <int F>
+std::string describe(sin_cos_pair<fixed<F>> x) {
+  return "sin=" + hex(x.sin) + " cos=" + hex(x.cos);
+}
+
+template <typename Q>
+Q random_value(std::mt19937_64& rng) {
+  using raw_type = typename Q::raw_type;
+  return Q::from_raw(
+      static_cast<raw_type>(static_cast<int64_t>(rng() >> (64 - 8 * sizeof(raw_type))) + Q::raw_min));
+}
+
+// Full-scale corners, their neighbours and the values where the transforms change behaviour.
+template <typename Q>
+std::vector<Q> edge_values() {
+  std::vector<Q> values;
+  for (double x : {-1.0, -0.8660254037844386, -0.5773502691896258, -0.5, 0.0, 0.5, 0.5773502691896258,
+                   0.8660254037844386, 1.0}) {
+    values.push_back(detail::from_double<Q>(x));
+  }
+  for (int64_t raw : {Q::raw_min + 1, int64_t{-1}, int64_t{1}, Q::raw_max - 1}) {
+    values.push_back(Q::saturate(raw));
+  }
+  return values;
+}
+
+// Random phase currents: half uniform over the whole range (mostly unbalanced, many saturate), half
+// near-balanced (a + b + c small), the case a drive sees.
+template <typename Q>
+phases<Q> random_phases(std::mt19937_64& rng, uint64_t i) {
+  const Q a = random_value<Q>(rng), b = random_value<Q>(rng);
+  if (i % 2 == 0) return {a, b, random_value<Q>(rng)};
+  const Q half_a = Q::from_raw(static_cast<typename Q::raw_type>(a.raw() / 2));
+  const Q half_b = Q::from_raw(static_cast<typename Q::raw_type>(b.raw() / 2));
+  const Q noise = Q::from_raw(static_cast<typename Q::raw_type>(static_cast<int64_t>(rng() % 64) - 32));
+  return {half_a, half_b, -(half_a + half_b) + noise};
+}
+
+// A random stationary vector with |v| <= 1.
+template <typename Q>
+stationary<Q> random_unit_disc(std::mt19937_64& rng) {
+  for (;;) {
+    const stationary<Q> v{random_value<Q>(rng), random_value<Q>(rng)};
+    const double a = to_double(v.alpha), b = to_double(v.beta);
+    if (a * a + b * b <= 1.0) return v;
+  }
+}
+
+template <typename Q>
+error_stats make_stats(const char* function, std::string inputs, double bound) {
+  error_stats s;
+  s.function = function;
+  s.format = format_name<Q>();
+  s.inputs = std::move(inputs);
+  s.bound = bound;
+  return s;
+}
+
+template <typename T, typename Describe>
+void add_outputs(error_stats& s, phases<T> got, phases<double> want, Describe&& d) {
+  s.add(lsb_error(got.a, want.a), d);
+  s.add(lsb_error(got.b, want.b), d);
+  s.add(lsb_error(got.c, want.c), d);
+}
+template <typename T, typename Describe>
+void add_outputs(error_stats& s, stationary<T> got, stationary<double> want, Describe&& d) {
+  s.add(lsb_error(got.alpha, want.alpha), d);
+  s.add(lsb_error(got.beta, want.beta), d);
+}
+template <typename T, typename Describe>
+void add_outputs(error_stats& s, rotating<T> got, rotating<double> want, Describe&& d) {
+  s.add(lsb_error(got.d, want.d), d);
+  s.add(lsb_error(got.q, want.q), d);
+}
+template <typename T, typename Describe>
+void add_outputs(error_stats& s, sin_cos_pair<T> got, sin_cos_pair<double> want, Describe&& d) {
+  s.add(lsb_error(got.sin, want.sin), d);
+  s.add(lsb_error(got.cos, want.cos), d);
+}
+
+// ---- sin_cos ----
+
+error_stats sin_cos_q15() {
+  error_stats s = make_stats<q15>("sin_cos", "all 65536 angles", bound::sin_cos_q15);
+  for (uint32_t raw = 0; raw < 65536; ++raw) {
+    const turn16 angle = turn16::from_raw(static_cast<uint16_t>(raw));
+    add_outputs(s, sin_cos(angle), ref::sin_cos(angle), [&] { return "angle=" + hex(angle.raw()); });
+  }
+  return s;
+}
+
+error_stats sin_cos_q31(const sweep_options& options) {
+  error_stats s = make_stats<q31>(
+      "sin_cos", std::to_string(options.sin_cos_q31_angles) + " random angles + 7168 segment edges",
+      bound::sin_cos_q31);
+  const auto check = [&](uint32_t raw) {
+    const turn32 angle = turn32::from_raw(raw);
+    add_outputs(s, sin_cos(angle), ref::sin_cos(angle), [&] { return "angle=" + hex(angle.raw()); });
+  };
+  // Both ends and the centre of every one of the 1024 table segments of the turn.
+  for (uint32_t segment = 0; segment < 1024; ++segment) {
+    for (uint32_t offset : {0u, 1u, 0x1fffffu, 0x200000u, 0x200001u, 0x3ffffeu, 0x3fffffu}) {
+      check((segment << 22) | offset);
+    }
+  }
+  std::mt19937_64 rng(options.seed);
+  for (uint64_t i = 0; i < options.sin_cos_q31_angles; ++i) check(static_cast<uint32_t>(rng()));
+  return s;
+}
+
+// ---- Clarke family ----
+
+template <typename Q>
+void clarke_rows(const sweep_options& options, std::vector<error_stats>& rows) {
+  const std::string inputs = "edge grid + " + std::to_string(options.random_inputs) + " random";
+  error_stats forward = make_stats<Q>("clarke", inputs, bound::transform);
+  error_stats balanced = make_stats<Q>("clarke_balanced", inputs, bound::transform);
+  error_stats inverse = make_stats<Q>("inverse_clarke", inputs, bound::transform);
+  error_stats forward_pi = make_stats<Q>("clarke_power_invariant", inputs, bound::transform);
+  error_stats inverse_pi = make_stats<Q>("inverse_clarke_power_invariant", inputs, bound::transform);
+
+  const auto check = [&](phases<Q> i) {
+    const auto d3 = [&] { return describe(i); };
+    add_outputs(forward, clarke(i), ref::clarke(ref::to_double(i)), d3);
+    add_outputs(forward_pi, clarke_power_invariant(i), ref::clarke_power_invariant(ref::to_double(i)), d3);
+    const stationary<Q> v{i.a, i.b};
+    const auto d2 = [&] { return describe(v); };
+    add_outputs(balanced, clarke_balanced(i.a, i.b), ref::clarke_balanced(to_double(i.a), to_double(i.b)),
+                [&] { return "a=" + hex(i.a) + " b=" + hex(i.b); });
+    add_outputs(inverse, inverse_clarke(v), ref::inverse_clarke(ref::to_double(v)), d2);
+    add_outputs(inverse_pi, inverse_clarke_power_invariant(v),
+                ref::inverse_clarke_power_invariant(ref::to_double(v)), d2);
+  };
+  const std::vector<Q> edges = edge_values<Q>();
+  for (Q a : edges) {
+    for (Q b : edges) {
+      for (Q c : edges) check({a, b, c});
+    }
+  }
+  std::mt19937_64 rng(options.seed + Q::fraction_bits);
+  for (uint64_t i = 0; i < options.random_inputs; ++i) check(random_phases<Q>(rng, i));
+  for (error_stats* s : {&forward, &balanced, &inverse, &forward_pi, &inverse_pi}) rows.push_back(*s);
+}
+
+// ---- Park ----
+
+template <typename Q>
+void park_rows(const sweep_options& options, std::vector<error_stats>& rows) {
+  using angle_type = typename angle_for<Q>::type;
+  const std::string inputs = std::to_string(options.random_inputs) + " random";
+  error_stats forward = make_stats<Q>("park", inputs + " (vector, pair)", bound::park_given_pair);
+  error_stats inverse = make_stats<Q>("inverse_park", inputs + " (vector, pair)", bound::park_given_pair);
+  const double with_sin_cos_bound =
+      Q::fraction_bits == 15 ? bound::park_with_sin_cos_q15 : bound::park_with_sin_cos_q31;
+  error_stats forward_angle =
+      make_stats<Q>("park(sin_cos(angle))", inputs + " |v| <= 1, angle", with_sin_cos_bound);
+  error_stats inverse_angle =
+      make_stats<Q>("inverse_park(sin_cos(angle))", inputs + " |v| <= 1, angle", with_sin_cos_bound);
+
+  std::mt19937_64 rng(options.seed + 100 + Q::fraction_bits);
+  for (uint64_t i = 0; i < options.random_inputs; ++i) {
+    const angle_type angle = angle_type::from_raw(static_cast<typename angle_type::raw_type>(rng()));
+    // Given the pair: any pair at all, mostly the library's own, sometimes arbitrary values.
+    const sin_cos_pair<Q> pair =
+        (i % 8 == 0) ? sin_cos_pair<Q>{random_value<Q>(rng), random_value<Q>(rng)} : sin_cos(angle);
+    const stationary<Q> v{random_value<Q>(rng), random_value<Q>(rng)};
+    const rotating<Q> r{v.alpha, v.beta};
+    const auto dv = [&] { return describe(v) + " " + describe(pair); };
+    add_outputs(forward, park(v, pair), ref::park(ref::to_double(v), ref::to_double(pair)), dv);
+    add_outputs(inverse, inverse_park(r, pair), ref::inverse_park(ref::to_double(r), ref::to_double(pair)),
+                [&] { return describe(r) + " " + describe(pair); });
+
+    // With the library's sine and cosine, against the exact angle.
+    const stationary<Q> u = random_unit_disc<Q>(rng);
+    const rotating<Q> w{u.alpha, u.beta};
+    const sin_cos_pair<double> exact = ref::sin_cos(angle);
+    const auto du = [&] { return describe(u) + " angle=" + hex(angle.raw()); };
+    add_outputs(forward_angle, park(u, sin_cos(angle)), ref::park(ref::to_double(u), exact), du);
+    add_outputs(inverse_angle, inverse_park(w, sin_cos(angle)), ref::inverse_park(ref::to_double(w), exact),
+                [&] { return describe(w) + " angle=" + hex(angle.raw()); });
+  }
+  for (error_stats* s : {&forward, &inverse, &forward_angle, &inverse_angle}) rows.push_back(*s);
+}
+
+// ---- round trips ----
+
+template <typename Q>
+void round_trip_rows(const sweep_options& options, std::vector<error_stats>& rows) {
+  using angle_type = typename angle_for<Q>::type;
+  const std::string inputs = std::to_string(options.random_inputs) + " random";
+  error_stats clarke_trip =
+      make_stats<Q>("inverse_clarke(clarke(i))", inputs + " balanced i", bound::round_trip_clarke);
+  error_stats clarke_pi_trip = make_stats<Q>("inverse_clarke_power_invariant(...)", inputs + " balanced i",
+                                             bound::round_trip_clarke_power_invariant);
+  error_stats park_trip =
+      make_stats<Q>("inverse_park(park(v))", inputs + " |v| <= 1, angle",
+                    Q::fraction_bits == 15 ? bound::round_trip_park_q15 : bound::round_trip_park_q31);
+
+  std::mt19937_64 rng(options.seed + 200 + Q::fraction_bits);
+  for (uint64_t i = 0; i < options.random_inputs; ++i) {
+    // A balanced set small enough that no forward output saturates: a and b within +-1/3, c = -a - b.
+    const Q a = Q::from_raw(static_cast<typename Q::raw_type>(random_value<Q>(rng).raw() / 3));
+    const Q b = Q::from_raw(static_cast<typename Q::raw_type>(random_value<Q>(rng).raw() / 3));
+    const phases<Q> balanced{a, b, -(a + b)};
+    const phases<double> want = ref::to_double(balanced);
+    const auto di = [&] { return describe(balanced); };
+    add_outputs(clarke_trip, inverse_clarke(clarke(balanced)), want, di);
+    add_outputs(clarke_pi_trip, inverse_clarke_power_invariant(clarke_power_invariant(balanced)), want, di);
+
+    const stationary<Q> v = random_unit_disc<Q>(rng);
+    const angle_type angle = angle_type::from_raw(static_cast<typename angle_type::raw_type>(rng()));
+    const sin_cos_pair<Q> pair = sin_cos(angle);
+    add_outputs(park_trip, inverse_park(park(v, pair), pair), ref::to_double(v),
+                [&] { return describe(v) + " angle=" + hex(angle.raw()); });
+  }
+  for (error_stats* s : {&clarke_trip, &clarke_pi_trip, &park_trip}) rows.push_back(*s);
+}
+
+}  // namespace
+
+std::vector<error_stats> sweep_sin_cos(const sweep_options& options) {
+  return {sin_cos_q15(), sin_cos_q31(options)};
+}
+
+std::vector<error_stats> sweep_clarke(const sweep_options& options) {
+  std::vector<error_stats> rows;
+  clarke_rows<q15>(options, rows);
+  clarke_rows<q31>(options, rows);
+  return rows;
+}
+
+std::vector<error_stats> sweep_park(const sweep_options& options) {
+  std::vector<error_stats> rows;
+  park_rows<q15>(options, rows);
+  park_rows<q31>(options, rows);
+  return rows;
+}
+
+std::vector<error_stats> sweep_round_trips(const sweep_options& options) {
+  std::vector<error_stats> rows;
+  round_trip_rows<q15>(options, rows);
+  round_trip_rows<q31>(options, rows);
+  return rows;
+}
+
+std::vector<error_stats> sweep_all(const sweep_options& options) {
+  std::vector<error_stats> rows;
+  for (auto* sweep : {&sweep_sin_cos, &sweep_clarke, &sweep_park, &sweep_round_trips}) {
+    for (error_stats& s : sweep(options)) rows.push_back(std::move(s));
+  }
+  return rows;
+}
+
+}  // namespace rotorq::accuracy

@@ -1,0 +1,13 @@
+// Everything rotorq offers for the target: include this one header in firmware.
+// (Host-only conversions from and to double are in rotorq/host.hpp.)
+#pragma once
+
+#include "rotorq/accumulator.hpp"
+#include "rotorq/clarke.hpp"
+#include "rotorq/constants.hpp"
+#include "rotorq/fixed.hpp"
+#include "rotorq/frames.hpp"
+#include "rotorq/park.hpp"
+#include "rotorq/sin_cos.hpp"
+#include "rotorq/turn.hpp"
+#include "rotorq/version.hpp"
