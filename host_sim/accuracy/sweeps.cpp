@@ -147,6 +147,38 @@ void add_outputs(error_stats& s, sin_cos_pair<T> got, sin_cos_pair<double> want,
   s.add(lsb_error(got.cos, want.cos), d);
 }
 
+// ---- arithmetic ----
+
+template <typename Q>
+void arithmetic_rows(const sweep_options& options, std::vector<error_stats>& rows) {
+  const std::string inputs = "edge grid + " + std::to_string(options.random_inputs) + " random";
+  error_stats product = make_stats<Q>("operator*", inputs, bound::multiply);
+  error_stats fused = make_stats<Q>("mul_add", inputs, bound::multiply);
+  error_stats sum = make_stats<Q>("accumulator (4 products)", inputs, bound::multiply);
+  const auto check = [&](Q a, Q b, Q c, Q d) {
+    const double x = to_double(a), y = to_double(b), z = to_double(c), w = to_double(d);
+    const auto dab = [&] { return "a=" + hex(a) + " b=" + hex(b); };
+    product.add(lsb_error(a * b, ref::multiply(x, y)), dab);
+    fused.add(lsb_error(mul_add(a, b, c), ref::mul_add(x, y, z)), [&] { return dab() + " c=" + hex(c); });
+    accumulator<Q> acc;
+    acc.mac(a, b);
+    acc.mac(c, d);
+    acc.msc(a, d);
+    acc.mac(b, c);
+    sum.add(lsb_error(acc.result(), x * y + z * w - x * w + y * z),
+            [&] { return dab() + " c=" + hex(c) + " d=" + hex(d); });
+  };
+  const std::vector<Q> edges = edge_values<Q>();
+  for (Q a : edges) {
+    for (Q b : edges) check(a, b, edges[static_cast<size_t>(a.raw() & 7) % edges.size()], b);
+  }
+  std::mt19937_64 rng(options.seed + 300 + Q::fraction_bits);
+  for (uint64_t i = 0; i < options.random_inputs; ++i) {
+    check(random_value<Q>(rng), random_value<Q>(rng), random_value<Q>(rng), random_value<Q>(rng));
+  }
+  for (error_stats* s : {&product, &fused, &sum}) rows.push_back(*s);
+}
+
 // ---- sin_cos ----
 
 error_stats sin_cos_q15() {
@@ -287,6 +319,13 @@ void round_trip_rows(const sweep_options& options, std::vector<error_stats>& row
 
 }  // namespace
 
+std::vector<error_stats> sweep_arithmetic(const sweep_options& options) {
+  std::vector<error_stats> rows;
+  arithmetic_rows<q15>(options, rows);
+  arithmetic_rows<q31>(options, rows);
+  return rows;
+}
+
 std::vector<error_stats> sweep_sin_cos(const sweep_options& options) {
   return {sin_cos_q15(), sin_cos_q31(options)};
 }
@@ -314,7 +353,7 @@ std::vector<error_stats> sweep_round_trips(const sweep_options& options) {
 
 std::vector<error_stats> sweep_all(const sweep_options& options) {
   std::vector<error_stats> rows;
-  for (auto* sweep : {&sweep_sin_cos, &sweep_clarke, &sweep_park, &sweep_round_trips}) {
+  for (auto* sweep : {&sweep_arithmetic, &sweep_sin_cos, &sweep_clarke, &sweep_park, &sweep_round_trips}) {
     for (error_stats& s : sweep(options)) rows.push_back(std::move(s));
   }
   return rows;

@@ -49,6 +49,7 @@ struct sweep_options {
 };
 
 // Each returns one row per format (q15 first, then q31).
+std::vector<error_stats> sweep_arithmetic(const sweep_options& options);
 std::vector<error_stats> sweep_sin_cos(const sweep_options& options);
 std::vector<error_stats> sweep_clarke(const sweep_options& options);
 std::vector<error_stats> sweep_park(const sweep_options& options);
@@ -59,6 +60,7 @@ std::vector<error_stats> sweep_all(const sweep_options& options);
 
 // The documented bounds (also stated in the headers), in LSB.
 namespace bound {
+inline constexpr double multiply = 0.5;  // a * b, mul_add, accumulator: correctly rounded
 inline constexpr double sin_cos_q15 = 0.51;
 inline constexpr double sin_cos_q31 = 2.0;
 inline constexpr double transform = 1.0;  // Clarke family, given q inputs (measured: 0.5)

@@ -5,8 +5,10 @@
 #include "rotorq/frames.hpp"
 #include "rotorq/host.hpp"
 #include "rotorq/ref/clarke.hpp"
+#include "rotorq/ref/fixed.hpp"
 #include "rotorq/ref/park.hpp"
 #include "rotorq/ref/sin_cos.hpp"
+#include "rotorq/ref/turn.hpp"
 
 namespace rotorq::ref {
 
