@@ -27,15 +27,38 @@ namespace rotorq {
 
 namespace detail {
 
-// q15: an integer combination of raw inputs (|n| < 2^18) times a constant rounded to Q31; the
-// product is exact and below 2^49. The result is rounded from Q46 to Q15.
-constexpr int64_t times_q31_constant(int64_t n, uint64_t k) noexcept {
-  return n * int64_t{constant<q31>(k).raw()};
-}
-constexpr q15 round_q46(int64_t v) noexcept { return q15::saturate(round_shift(v, 31)); }
+// Wide values: a raw value times 2^31, held in int64 (Q46 for q15, Q62 for q31), so a product with a
+// constant keeps all its bits until the one rounding at the end.
+template <int F>
+struct wide;
+template <>
+struct wide<15> {
+  // n (an integer combination of raw inputs, |n| < 2^18) times the constant rounded to Q31: exact,
+  // below 2^49.
+  static constexpr int64_t times(int64_t n, uint64_t k62) noexcept {
+    return n * int64_t{constant<q31>(k62).raw()};
+  }
+};
+template <>
+struct wide<31> {
+  // x times the Q62 constant split in two words; |result| <= 2^62.
+  static constexpr int64_t times(int32_t x, uint64_t k62) noexcept { return mul_q31_by_q62(x, k62); }
+};
 
-// q31: sums of Q62 terms below 2^63 in magnitude (each call site says why), rounded to Q31.
-constexpr q31 round_q62(int64_t v) noexcept { return q31::saturate(round_shift(v, 31)); }
+// Round a wide value to the format (ties toward +infinity) and saturate. Call sites keep |v| below
+// 2^63 - 2^30.
+template <int F>
+constexpr fixed<F> round_wide(int64_t v) noexcept {
+  return fixed<F>::saturate(round_shift(v, 31));
+}
+
+// The three phase values of inverse_clarke before rounding; |b|, |c| <= (1/2 + sqrt(3)/2) 2^(F+31).
+template <int F>
+constexpr phases<int64_t> inverse_clarke_wide(stationary<fixed<F>> v) noexcept {
+  const int64_t half_alpha = int64_t{v.alpha.raw()} * pow2(30);
+  const int64_t beta_part = wide<F>::times(v.beta.raw(), constants::sqrt3_over_2);
+  return {int64_t{v.alpha.raw()} * pow2(31), beta_part - half_alpha, -beta_part - half_alpha};
+}
 
 }  // namespace detail
 
@@ -43,8 +66,8 @@ constexpr q31 round_q62(int64_t v) noexcept { return q31::saturate(round_shift(v
 
 constexpr stationary<q15> clarke(phases<q15> i) noexcept {
   const int64_t a = i.a.raw(), b = i.b.raw(), c = i.c.raw();
-  return {detail::round_q46(detail::times_q31_constant(2 * a - b - c, constants::one_third)),
-          detail::round_q46(detail::times_q31_constant(b - c, constants::inv_sqrt3))};
+  return {detail::round_wide<15>(detail::wide<15>::times(2 * a - b - c, constants::one_third)),
+          detail::round_wide<15>(detail::wide<15>::times(b - c, constants::inv_sqrt3))};
 }
 
 constexpr stationary<q31> clarke(phases<q31> i) noexcept {
@@ -55,42 +78,33 @@ constexpr stationary<q31> clarke(phases<q31> i) noexcept {
                           mul_q31_by_q62(i.c.raw(), constants::one_third);
   const int64_t beta62 =
       mul_q31_by_q62(i.b.raw(), constants::inv_sqrt3) - mul_q31_by_q62(i.c.raw(), constants::inv_sqrt3);
-  return {detail::round_q62(alpha62), detail::round_q62(beta62)};
+  return {detail::round_wide<31>(alpha62), detail::round_wide<31>(beta62)};
 }
 
 constexpr stationary<q15> clarke_balanced(q15 a, q15 b) noexcept {
   const int64_t n = int64_t{a.raw()} + 2 * int64_t{b.raw()};
-  return {a, detail::round_q46(detail::times_q31_constant(n, constants::inv_sqrt3))};
+  return {a, detail::round_wide<15>(detail::wide<15>::times(n, constants::inv_sqrt3))};
 }
 
 constexpr stationary<q31> clarke_balanced(q31 a, q31 b) noexcept {
   // |beta62| <= 3/sqrt(3) 2^62
   const int64_t beta62 = detail::mul_q31_by_q62(a.raw(), constants::inv_sqrt3) +
                          2 * detail::mul_q31_by_q62(b.raw(), constants::inv_sqrt3);
-  return {a, detail::round_q62(beta62)};
+  return {a, detail::round_wide<31>(beta62)};
 }
 
-constexpr phases<q15> inverse_clarke(stationary<q15> v) noexcept {
-  const int64_t half_alpha46 = int64_t{v.alpha.raw()} * detail::pow2(30);  // alpha/2 in Q46
-  const int64_t beta_part46 = detail::times_q31_constant(v.beta.raw(), constants::sqrt3_over_2);
-  return {v.alpha, detail::round_q46(beta_part46 - half_alpha46),
-          detail::round_q46(-beta_part46 - half_alpha46)};
-}
-
-constexpr phases<q31> inverse_clarke(stationary<q31> v) noexcept {
-  const int64_t half_alpha62 = int64_t{v.alpha.raw()} * detail::pow2(30);  // alpha/2 in Q62
-  const int64_t beta_part62 = detail::mul_q31_by_q62(v.beta.raw(), constants::sqrt3_over_2);
-  // |b62|, |c62| <= (1/2 + sqrt(3)/2) 2^62
-  return {v.alpha, detail::round_q62(beta_part62 - half_alpha62),
-          detail::round_q62(-beta_part62 - half_alpha62)};
+template <int F>
+constexpr phases<fixed<F>> inverse_clarke(stationary<fixed<F>> v) noexcept {
+  const phases<int64_t> w = detail::inverse_clarke_wide(v);
+  return {v.alpha, detail::round_wide<F>(w.b), detail::round_wide<F>(w.c)};
 }
 
 // ---- power-invariant ----
 
 constexpr stationary<q15> clarke_power_invariant(phases<q15> i) noexcept {
   const int64_t a = i.a.raw(), b = i.b.raw(), c = i.c.raw();
-  return {detail::round_q46(detail::times_q31_constant(2 * a - b - c, constants::inv_sqrt6)),
-          detail::round_q46(detail::times_q31_constant(b - c, constants::inv_sqrt2))};
+  return {detail::round_wide<15>(detail::wide<15>::times(2 * a - b - c, constants::inv_sqrt6)),
+          detail::round_wide<15>(detail::wide<15>::times(b - c, constants::inv_sqrt2))};
 }
 
 constexpr stationary<q31> clarke_power_invariant(phases<q31> i) noexcept {
@@ -101,22 +115,16 @@ constexpr stationary<q31> clarke_power_invariant(phases<q31> i) noexcept {
                           mul_q31_by_q62(i.c.raw(), constants::inv_sqrt6);
   const int64_t beta62 =
       mul_q31_by_q62(i.b.raw(), constants::inv_sqrt2) - mul_q31_by_q62(i.c.raw(), constants::inv_sqrt2);
-  return {detail::round_q62(alpha62), detail::round_q62(beta62)};
+  return {detail::round_wide<31>(alpha62), detail::round_wide<31>(beta62)};
 }
 
-constexpr phases<q15> inverse_clarke_power_invariant(stationary<q15> v) noexcept {
-  const int64_t alpha_part46 = detail::times_q31_constant(v.alpha.raw(), constants::inv_sqrt6);
-  const int64_t beta_part46 = detail::times_q31_constant(v.beta.raw(), constants::inv_sqrt2);
-  return {detail::round_q46(detail::times_q31_constant(v.alpha.raw(), constants::sqrt2_over_3)),
-          detail::round_q46(beta_part46 - alpha_part46), detail::round_q46(-beta_part46 - alpha_part46)};
-}
-
-constexpr phases<q31> inverse_clarke_power_invariant(stationary<q31> v) noexcept {
-  const int64_t alpha_part62 = detail::mul_q31_by_q62(v.alpha.raw(), constants::inv_sqrt6);
-  const int64_t beta_part62 = detail::mul_q31_by_q62(v.beta.raw(), constants::inv_sqrt2);
-  // |b62|, |c62| <= (1/sqrt(6) + 1/sqrt(2)) 2^62
-  return {detail::round_q62(detail::mul_q31_by_q62(v.alpha.raw(), constants::sqrt2_over_3)),
-          detail::round_q62(beta_part62 - alpha_part62), detail::round_q62(-beta_part62 - alpha_part62)};
+template <int F>
+constexpr phases<fixed<F>> inverse_clarke_power_invariant(stationary<fixed<F>> v) noexcept {
+  const int64_t alpha_part = detail::wide<F>::times(v.alpha.raw(), constants::inv_sqrt6);
+  const int64_t beta_part = detail::wide<F>::times(v.beta.raw(), constants::inv_sqrt2);
+  // |b|, |c| <= (1/sqrt(6) + 1/sqrt(2)) 2^(F+31)
+  return {detail::round_wide<F>(detail::wide<F>::times(v.alpha.raw(), constants::sqrt2_over_3)),
+          detail::round_wide<F>(beta_part - alpha_part), detail::round_wide<F>(-beta_part - alpha_part)};
 }
 
 }  // namespace rotorq

@@ -95,6 +95,6 @@ constexpr fixed<F> mul_add(fixed<F> a, fixed<F> b, fixed<F> c) noexcept {
 constexpr q31 to_q31(q15 x) noexcept { return q31::from_raw(static_cast<int32_t>(x.raw() * 65536)); }
 
 // q31 -> q15 rounds to nearest (ties toward +infinity) and saturates.
-constexpr q15 to_q15(q31 x) noexcept { return q15::saturate(detail::round_shift(x.raw(), 16)); }
+constexpr q15 to_q15(q31 x) noexcept { return q15::saturate(detail::round_shift(int64_t{x.raw()}, 16)); }
 
 }  // namespace rotorq

@@ -36,22 +36,16 @@ Q from_double(double x) {
   return Q::saturate(static_cast<int64_t>(round_half_up(scaled)));
 }
 
-// Turns in [0, 1) -> raw steps, rounded to nearest (ties toward +infinity) modulo one turn.
-template <typename Turn>
-Turn turn_from_fraction(double turns) {
-  using raw_type = typename Turn::raw_type;
-  const double steps = round_half_up(std::ldexp(turns, Turn::bits));  // in [0, 2^bits]
-  return Turn::from_raw(static_cast<raw_type>(static_cast<uint64_t>(steps)));
-}
-
+// x reduced modulo `period` and rounded to the nearest step (ties toward +infinity), modulo one turn.
+// The rounding happens on the signed remainder, before any addition of a period could round it.
 template <typename Turn>
 Turn turn_from_period(double x, double period) {
+  using raw_type = typename Turn::raw_type;
   if (!std::isfinite(x)) return Turn{};
-  double reduced = std::fmod(x, period);  // exact, in (-period, period)
-  if (reduced < 0) reduced += period;
-  double turns = reduced / period;
-  if (turns >= 1.0) turns = 0.0;
-  return turn_from_fraction<Turn>(turns);
+  const double remainder = std::fmod(x, period);                                   // exact, |r| < period
+  const double steps = round_half_up(std::ldexp(remainder / period, Turn::bits));  // |steps| <= 2^bits
+  const auto wrapped = static_cast<int64_t>(steps) + (int64_t{1} << Turn::bits);   // positive
+  return Turn::from_raw(static_cast<raw_type>(static_cast<uint64_t>(wrapped)));
 }
 
 }  // namespace detail
