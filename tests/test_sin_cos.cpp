@@ -30,7 +30,7 @@ TEST(SineTable, EveryEntryIsTheCorrectlyRoundedSineAtItsSegmentCentre) {
   // i.e. (2k + 1) / 2048 of a turn.
   for (int k = 0; k < rotorq::detail::sine_segments; ++k) {
     mpfr_value exact;
-    rotorq::test::scaled_sin_cos_turns(exact.get(), static_cast<uint64_t>(2 * k + 1), 11, 31, false);
+    rotorq::test::scaled_sin_cos_turns(exact.get(), 2 * static_cast<uint64_t>(k) + 1, 11, 31, false);
     const int64_t want = static_cast<int64_t>(rotorq::test::round_scaled(exact.get(), 0));
     ASSERT_EQ(rotorq::detail::sine_table.value[k], want) << "entry " << k;
   }

@@ -115,9 +115,20 @@ stationary<Q> random_unit_disc(std::mt19937_64& rng) {
   }
 }
 
+// Rows whose functions are documented as correctly rounded (see the headers).
+bool is_correctly_rounded(const std::string& function) {
+  for (const char* name : {"operator*", "mul_add", "accumulator (4 products)", "clarke", "clarke_balanced",
+                           "inverse_clarke", "clarke_power_invariant", "inverse_clarke_power_invariant",
+                           "park", "inverse_park", "svpwm (linear range)"}) {
+    if (function == name) return true;
+  }
+  return false;
+}
+
 template <typename Q>
 error_stats make_stats(const char* function, std::string inputs, double bound) {
   error_stats s;
+  s.correctly_rounded = is_correctly_rounded(function);
   s.function = function;
   s.format = format_name<Q>();
   s.inputs = std::move(inputs);
@@ -174,7 +185,13 @@ void arithmetic_rows(const sweep_options& options, std::vector<error_stats>& row
   }
   std::mt19937_64 rng(options.seed + 300 + Q::fraction_bits);
   for (uint64_t i = 0; i < options.random_inputs; ++i) {
-    check(random_value<Q>(rng), random_value<Q>(rng), random_value<Q>(rng), random_value<Q>(rng));
+    // one draw per statement: the order of function arguments is unspecified, and the published
+    // figures must not depend on the compiler
+    const Q a = random_value<Q>(rng);
+    const Q b = random_value<Q>(rng);
+    const Q c = random_value<Q>(rng);
+    const Q d = random_value<Q>(rng);
+    check(a, b, c, d);
   }
   for (error_stats* s : {&product, &fused, &sum}) rows.push_back(*s);
 }
@@ -283,6 +300,60 @@ void park_rows(const sweep_options& options, std::vector<error_stats>& rows) {
   for (error_stats* s : {&forward, &inverse, &forward_angle, &inverse_angle}) rows.push_back(*s);
 }
 
+// ---- modulation ----
+
+template <typename Q>
+void modulation_rows(const sweep_options& options, std::vector<error_stats>& rows) {
+  const std::string inputs = std::to_string(options.random_inputs) + " random";
+  error_stats linear =
+      make_stats<Q>("svpwm (linear range)", inputs + " |v| <= 1/sqrt(3)", bound::svpwm_linear);
+  error_stats circle =
+      make_stats<Q>("svpwm (circle limit)", inputs + " |v| <= sqrt(2)",
+                    Q::fraction_bits == 15 ? bound::overmodulation_q15 : bound::overmodulation_q31);
+  error_stats hexagon =
+      make_stats<Q>("svpwm (hexagon limit)", inputs + " |v| <= sqrt(2)",
+                    Q::fraction_bits == 15 ? bound::overmodulation_q15 : bound::overmodulation_q31);
+  error_stats magnitude = make_stats<Q>("limit_magnitude", inputs + " (vector, limit)",
+                                        Q::fraction_bits == 15 ? bound::limiter_q15 : bound::limiter_q31);
+  error_stats d_priority = make_stats<Q>("limit_d_priority", inputs + " (vector, limit)",
+                                         Q::fraction_bits == 15 ? bound::limiter_q15 : bound::limiter_q31);
+  error_stats bus = make_stats<Q>("bus_normalizer", inputs + " (v, bus > 1/64)",
+                                  Q::fraction_bits == 15 ? bound::limiter_q15 : bound::limiter_q31);
+  const double inscribed = 1.0 / std::sqrt(3.0);
+  std::mt19937_64 rng(options.seed + 400 + Q::fraction_bits);
+  for (uint64_t i = 0; i < options.random_inputs; ++i) {
+    const stationary<Q> v{random_value<Q>(rng), random_value<Q>(rng)};
+    const stationary<double> x = ref::to_double(v);
+    const double length = std::hypot(x.alpha, x.beta);
+    const auto dv = [&] { return describe(v); };
+    // The linear range: a point of the circle, the dwell-time construction as the yardstick.
+    const stationary<Q> u{
+        Q::saturate(static_cast<int64_t>(static_cast<double>(v.alpha.raw()) * inscribed / 1.4143)),
+        Q::saturate(static_cast<int64_t>(static_cast<double>(v.beta.raw()) * inscribed / 1.4143))};
+    const modulation<Q> lin = svpwm(u, overmodulation::hexagon);
+    add_outputs(linear, lin.duty, ref::svpwm_dwell_time(ref::to_double(u)), [&] { return describe(u); });
+    if (length > inscribed) {
+      add_outputs(circle, svpwm(v, overmodulation::circle).duty, ref::svpwm_min_max(x, true).duty, dv);
+      add_outputs(hexagon, svpwm(v, overmodulation::hexagon).duty, ref::svpwm_min_max(x, false).duty, dv);
+    }
+    const Q m = Q::saturate(std::llabs(random_value<Q>(rng).raw()));
+    const rotating<Q> r{v.alpha, v.beta};
+    const auto dr = [&] { return describe(r) + " m=" + hex(m); };
+    const stationary<double> limited_ref = ref::limit_magnitude(x, to_double(m));
+    add_outputs(magnitude, limit_magnitude(r, m).value, rotating<double>{limited_ref.alpha, limited_ref.beta},
+                dr);
+    add_outputs(d_priority, limit_d_priority(r, m).value,
+                ref::limit_d_priority({x.alpha, x.beta}, to_double(m)), dr);
+    // a bus between 1/64 of full scale and full scale, above the normalizer's minimum of 1/128
+    const Q bus_voltage = Q::saturate(std::llabs(random_value<Q>(rng).raw()) | (Q::raw_max >> 6));
+    bus_normalizer<Q> normalizer(Q::saturate(Q::raw_max >> 7));
+    normalizer.update(bus_voltage);
+    bus.add(lsb_error(normalizer.normalize(v.alpha), x.alpha / to_double(bus_voltage)),
+            [&] { return "v=" + hex(v.alpha) + " bus=" + hex(bus_voltage); });
+  }
+  for (error_stats* s : {&linear, &circle, &hexagon, &magnitude, &d_priority, &bus}) rows.push_back(*s);
+}
+
 // ---- round trips ----
 
 template <typename Q>
@@ -344,6 +415,13 @@ std::vector<error_stats> sweep_park(const sweep_options& options) {
   return rows;
 }
 
+std::vector<error_stats> sweep_modulation(const sweep_options& options) {
+  std::vector<error_stats> rows;
+  modulation_rows<q15>(options, rows);
+  modulation_rows<q31>(options, rows);
+  return rows;
+}
+
 std::vector<error_stats> sweep_round_trips(const sweep_options& options) {
   std::vector<error_stats> rows;
   round_trip_rows<q15>(options, rows);
@@ -353,7 +431,8 @@ std::vector<error_stats> sweep_round_trips(const sweep_options& options) {
 
 std::vector<error_stats> sweep_all(const sweep_options& options) {
   std::vector<error_stats> rows;
-  for (auto* sweep : {&sweep_arithmetic, &sweep_sin_cos, &sweep_clarke, &sweep_park, &sweep_round_trips}) {
+  for (auto* sweep : {&sweep_arithmetic, &sweep_sin_cos, &sweep_clarke, &sweep_park, &sweep_modulation,
+                      &sweep_round_trips}) {
     for (error_stats& s : sweep(options)) rows.push_back(std::move(s));
   }
   return rows;

@@ -61,8 +61,8 @@ constexpr sine_table_type make_sine_table() noexcept {
   sine_table_type table{};
   for (int k = 0; k < sine_segments; ++k) {
     // centre angle (2k + 1) * pi / 1024 in Q62: the 128-bit product shifted right by 10
-    const uint128_parts product = multiply_wide(static_cast<uint64_t>(2 * k + 1), constants::pi);
-    const uint64_t centre = (product.high << 54) | (product.low >> 10);
+    const uint128_parts centre_wide = multiply_wide(2 * static_cast<uint64_t>(k) + 1, constants::pi);
+    const uint64_t centre = (centre_wide.high << 54) | (centre_wide.low >> 10);
     table.value[k] = static_cast<int32_t>(round_shift(sine_q62(centre), 31));
   }
   return table;

@@ -19,6 +19,8 @@ struct error_stats {
   std::string format;    // "q15" or "q31"
   std::string inputs;    // what was swept
   double bound = 0.0;    // the documented bound on |error|, in LSB
+  // the function is documented as correctly rounded (0.5 LSB, plus 2^-15 LSB for a constant)
+  bool correctly_rounded = false;
   uint64_t samples = 0;
   double max_abs = 0.0;  // largest |error| in LSB
   double sum = 0.0;
@@ -53,6 +55,7 @@ std::vector<error_stats> sweep_arithmetic(const sweep_options& options);
 std::vector<error_stats> sweep_sin_cos(const sweep_options& options);
 std::vector<error_stats> sweep_clarke(const sweep_options& options);
 std::vector<error_stats> sweep_park(const sweep_options& options);
+std::vector<error_stats> sweep_modulation(const sweep_options& options);
 std::vector<error_stats> sweep_round_trips(const sweep_options& options);
 
 // All of the above, in that order.
@@ -68,6 +71,17 @@ inline constexpr double park_given_pair = 0.5;
 // park/inverse_park with the library's sin_cos, |v| <= 1: 0.5 + E (see park.hpp)
 inline constexpr double park_with_sin_cos_q15 = 1.62;
 inline constexpr double park_with_sin_cos_q31 = 2.0;
+// svpwm duties in the linear range: one rounding of exact wide values
+inline constexpr double svpwm_linear = 0.5 + 1.0 / 32768;
+// beyond the linear range (svpwm.hpp): the limited vector's error (its rounding, the limiting
+// factor's 2^-28, the circle radius rounded down) passes through the phase voltages and the
+// injection twice, plus the duty's own rounding
+inline constexpr double overmodulation_q15 = 3.5;
+inline constexpr double overmodulation_q31 = 17.0;
+// limit_magnitude, limit_d_priority, bus_normalizer: 0.5 LSB + |v| 2^-28 (voltage_limit.hpp,
+// dc_bus.hpp)
+inline constexpr double limiter_q15 = 0.51;
+inline constexpr double limiter_q31 = 8.5;
 // inverse(forward(x)) against x: the forward rounding errors (<= 0.5 each) pass through the inverse
 // matrix, plus the inverse's own rounding; for Park also the deviation of the library's sine/cosine
 // pair from unit length, |v| * 2E.

@@ -8,6 +8,7 @@
 #include "rotorq/ref/fixed.hpp"
 #include "rotorq/ref/park.hpp"
 #include "rotorq/ref/sin_cos.hpp"
+#include "rotorq/ref/svpwm.hpp"
 #include "rotorq/ref/turn.hpp"
 
 namespace rotorq::ref {
