@@ -9,10 +9,13 @@ namespace rotorq::test {
 
 class mpfr_value {
  public:
-  mpfr_value() { mpfr_init2(v_, 256); }
+  // mpfr_init2 is what initialises an mpfr_t; it has no value-initialised state to give it before.
+  mpfr_value() { mpfr_init2(v_, 256); }  // NOLINT(cppcoreguidelines-pro-type-member-init)
   ~mpfr_value() { mpfr_clear(v_); }
   mpfr_value(const mpfr_value&) = delete;
   mpfr_value& operator=(const mpfr_value&) = delete;
+  mpfr_value(mpfr_value&&) = delete;
+  mpfr_value& operator=(mpfr_value&&) = delete;
   mpfr_ptr get() { return v_; }
 
  private:

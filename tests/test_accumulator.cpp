@@ -197,6 +197,8 @@ term<Q> random_term(std::mt19937_64& rng) {
 // Edge values of a format: min, min + 1, -1, 0, 1, max - 1, max, and +-2^k, +-2^k +- 1.
 template <typename Q>
 std::vector<Q> edge_values() {
+  // cppcheck reads the variable templates raw_lo<Q>, raw_hi<Q> as comparisons here
+  // cppcheck-suppress compareBoolExpressionWithInt
   std::vector<int64_t> raws = {raw_lo<Q>, raw_lo<Q> + 1, -1, 0, 1, raw_hi<Q> - 1, raw_hi<Q>};
   for (int k = 1; k < Q::fraction_bits; ++k) {
     const int64_t p = int64_t{1} << k;
@@ -374,6 +376,8 @@ TEST(Accumulator, RoundsOnceQ31) { check_single_rounding<q31>(); }
 template <typename Q>
 void check_excursions(const std::vector<int>& counts) {
   const Q lo = Q::min(), hi = Q::max();
+  // cppcheck reads the variable template raw_hi<Q> as a comparison here
+  // cppcheck-suppress compareBoolExpressionWithInt
   const Q pairs[][2] = {{lo, lo}, {hi, hi}, {lo, hi}, {hi, lo}, {lo, from_wide<Q>(raw_hi<Q> - 1)}};
   const Q finals[] = {Q::zero(), hi, lo, from_wide<Q>(1), from_wide<Q>(-1), from_wide<Q>(raw_hi<Q> / 3)};
   for (const int n : counts) {

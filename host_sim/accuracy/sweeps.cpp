@@ -1,10 +1,13 @@
 #include "rotorq/accuracy/sweeps.hpp"
 
 #include <algorithm>
+#include <atomic>
+#include <chrono>
 #include <cinttypes>
 #include <cmath>
 #include <cstdio>
 #include <random>
+#include <thread>
 
 #include "rotorq/ref/ref.hpp"
 #include "rotorq/rotorq.hpp"
@@ -13,6 +16,24 @@ namespace rotorq::accuracy {
 
 double error_stats::rms() const {
   return samples ? std::sqrt(sum_squares / static_cast<double>(samples)) : 0.0;
+}
+
+void histogram::merge(const histogram& other) {
+  for (size_t i = 0; i < counts.size(); ++i) counts[i] += other.counts[i];
+  below += other.below;
+  above += other.above;
+}
+
+void error_stats::merge(const error_stats& other) {
+  if (other.samples == 0) return;
+  if (samples == 0 || other.max_abs > max_abs) {
+    max_abs = other.max_abs;
+    worst_input = other.worst_input;
+  }
+  samples += other.samples;
+  sum += other.sum;
+  sum_squares += other.sum_squares;
+  errors.merge(other.errors);
 }
 
 namespace {
@@ -125,9 +146,27 @@ bool is_correctly_rounded(const std::string& function) {
   return false;
 }
 
+// What each function's output usually stands for: sine/cosine an angle, the forward transforms
+// measured currents, the inverse transforms, limiters and bus scaling voltage commands (per unit of
+// the bus), the modulators duty cycles.
+quantity kind_of(const std::string& function) {
+  if (function == "sin_cos") return quantity::angle;
+  if (function.rfind("svpwm", 0) == 0) return quantity::duty;
+  if (function.rfind("inverse_", 0) == 0 || function.rfind("limit_", 0) == 0 ||
+      function == "bus_normalizer") {
+    return quantity::voltage;
+  }
+  if (function.find("clarke") != std::string::npos || function.find("park") != std::string::npos) {
+    return quantity::current;
+  }
+  return quantity::value;
+}
+
 template <typename Q>
 error_stats make_stats(const char* function, std::string inputs, double bound) {
   error_stats s;
+  s.fraction_bits = Q::fraction_bits;
+  s.kind = kind_of(function);
   s.correctly_rounded = is_correctly_rounded(function);
   s.function = function;
   s.format = format_name<Q>();
@@ -224,6 +263,105 @@ error_stats sin_cos_q31(const sweep_options& options) {
   std::mt19937_64 rng(options.seed);
   for (uint64_t i = 0; i < options.sin_cos_q31_angles; ++i) check(static_cast<uint32_t>(rng()));
   return s;
+}
+
+// All 2^32 angles, split into 65536 blocks of 65536 consecutive angles shared out among threads. The
+// exact values come from the double twin at the start of every 4096 angles, advanced angle by angle
+// by the rotation through one step: over 4096 steps in double the recurrence drifts by less than
+// 2^-40, a thousandth of a q31 step.
+error_stats sin_cos_q31_exhaustive(const sweep_options& options, plot_data* plots) {
+  error_stats total = make_stats<q31>("sin_cos", "all 2^32 angles", bound::sin_cos_q31);
+  constexpr uint32_t blocks = 65536;
+  const unsigned thread_count =
+      options.threads ? options.threads : std::max(1u, std::thread::hardware_concurrency());
+  std::vector<error_stats> partial(thread_count, total);
+  std::vector<double> low(blocks), high(blocks);
+  std::atomic<uint32_t> next{0}, done{0};
+  const double step = 6.283185307179586476925286766559 / 4294967296.0;
+  const double step_cos = 1.0 - step * step / 2, step_sin = step - step * step * step / 6;
+  constexpr double scale = 2147483648.0, top = 2147483647.0;  // 2^31 and the largest raw value
+  const auto work = [&](unsigned t) {
+    error_stats& s = partial[t];
+    for (uint32_t block = next++; block < blocks; block = next++) {
+      double lowest = 0, highest = 0;
+      for (uint32_t run = 0; run < 16; ++run) {
+        const uint32_t first = (block << 16) | (run << 12);
+        const sin_cos_pair<double> start = ref::sin_cos(turn32::from_raw(first));
+        double exact_sin = start.sin, exact_cos = start.cos;
+        for (uint32_t k = 0; k < 4096; ++k) {
+          const uint32_t raw = first + k;
+          const sin_cos_pair<q31> got = sin_cos(turn32::from_raw(raw));
+          const double es = static_cast<double>(got.sin.raw()) - std::min(exact_sin * scale, top);
+          const double ec = static_cast<double>(got.cos.raw()) - std::min(exact_cos * scale, top);
+          const auto describe_angle = [&] { return "angle=" + hex(raw); };
+          s.add(es, describe_angle);
+          s.add(ec, describe_angle);
+          lowest = std::min({lowest, es, ec});
+          highest = std::max({highest, es, ec});
+          const double next_sin = exact_sin * step_cos + exact_cos * step_sin;
+          exact_cos = exact_cos * step_cos - exact_sin * step_sin;
+          exact_sin = next_sin;
+        }
+      }
+      low[block] = lowest;
+      high[block] = highest;
+      ++done;
+    }
+  };
+  std::vector<std::thread> pool;
+  for (unsigned t = 1; t < thread_count; ++t) pool.emplace_back(work, t);
+  if (options.progress) {
+    std::thread watcher([&] {
+      while (done.load() < blocks) {
+        options.progress(static_cast<double>(done.load()) / blocks);
+        std::this_thread::sleep_for(std::chrono::milliseconds(200));
+      }
+      options.progress(1.0);
+    });
+    work(0);
+    for (std::thread& t : pool) t.join();
+    watcher.join();
+  } else {
+    work(0);
+    for (std::thread& t : pool) t.join();
+  }
+  for (const error_stats& p : partial) total.merge(p);
+  if (plots) {
+    plots->q31_angle.resize(blocks);
+    for (uint32_t b = 0; b < blocks; ++b) plots->q31_angle[b] = (b + 0.5) / blocks;
+    plots->q31_low = std::move(low);
+    plots->q31_high = std::move(high);
+  }
+  return total;
+}
+
+void sin_cos_q15_curve(plot_data& plots) {
+  for (uint32_t raw = 0; raw < 65536; ++raw) {
+    const turn16 angle = turn16::from_raw(static_cast<uint16_t>(raw));
+    const sin_cos_pair<q15> got = sin_cos(angle);
+    const sin_cos_pair<double> exact = ref::sin_cos(angle);
+    plots.q15_angle.push_back(raw / 65536.0);
+    plots.q15_sin.push_back(lsb_error(got.sin, exact.sin));
+    plots.q15_cos.push_back(lsb_error(got.cos, exact.cos));
+  }
+}
+
+void park_map(plot_data& plots) {
+  plots.map_size = 101;
+  for (int row = 0; row < plots.map_size; ++row) {
+    for (int column = 0; column < plots.map_size; ++column) {
+      const stationary<q15> v{to_q15(-1.0 + 2.0 * column / (plots.map_size - 1)),
+                              to_q15(-1.0 + 2.0 * row / (plots.map_size - 1))};
+      double worst = 0;
+      for (uint32_t k = 0; k < 64; ++k) {
+        const turn16 angle = turn16::from_raw(static_cast<uint16_t>(k * 1024 + 17 * k));
+        const rotating<q15> got = park(v, sin_cos(angle));
+        const rotating<double> exact = ref::park(ref::to_double(v), ref::sin_cos(angle));
+        worst = std::max({worst, std::fabs(lsb_error(got.d, exact.d)), std::fabs(lsb_error(got.q, exact.q))});
+      }
+      plots.park_map.push_back(worst);
+    }
+  }
 }
 
 // ---- Clarke family ----
@@ -354,6 +492,47 @@ void modulation_rows(const sweep_options& options, std::vector<error_stats>& row
   for (error_stats* s : {&linear, &circle, &hexagon, &magnitude, &d_priority, &bus}) rows.push_back(*s);
 }
 
+// ---- rotor angle ----
+
+// Two samples of a rotor turning at a random speed (up to a quarter turn per 1000 ticks), then the
+// angle extrapolated from the second sample up to 4096 ticks ahead or behind, against the twin.
+template <int TimerBits>
+error_stats interpolator_row(const sweep_options& options) {
+  error_stats s;
+  s.function = TimerBits == 16 ? "angle_interpolator (16-bit timer)" : "angle_interpolator (32-bit timer)";
+  s.format = "t32";
+  s.inputs = std::to_string(options.random_inputs) + " random (samples, time)";
+  s.bound = bound::interpolator;
+  s.fraction_bits = 32;
+  s.kind = quantity::rotor_angle;
+  using time_type = typename angle_interpolator<TimerBits>::time_type;
+  std::mt19937_64 rng(options.seed + 500 + TimerBits);
+  for (uint64_t i = 0; i < options.random_inputs; ++i) {
+    const auto first = static_cast<uint32_t>(rng());
+    const auto start = static_cast<time_type>(rng());
+    const auto interval = static_cast<uint32_t>(1 + rng() % 20000);
+    const int64_t motion = static_cast<int64_t>(rng() % (uint64_t{1} << 31)) - (int64_t{1} << 30);
+    const int64_t distance = motion * interval / 1000 / 4;  // |motion| < 2^30 per 1000 ticks / 4
+    const auto second = static_cast<uint32_t>(first + static_cast<uint32_t>(distance));
+    const int32_t ahead = static_cast<int32_t>(rng() % 8193) - 4096;
+    angle_interpolator<TimerBits> interpolator;
+    interpolator.update(turn32::from_raw(first), start);
+    interpolator.update(turn32::from_raw(second), static_cast<time_type>(start + interval));
+    const auto now = static_cast<time_type>(start + interval + static_cast<time_type>(ahead));
+    const turn32 got = interpolator.angle(now);
+    const double speed =
+        static_cast<double>(signed_difference(turn32::from_raw(second), turn32::from_raw(first))) /
+        4294967296.0 / interval;
+    const double want = ref::interpolate_angle(second / 4294967296.0, speed, ahead, 4294967296.0);
+    const double error = std::remainder(got.raw() / 4294967296.0 - want, 1.0) * 4294967296.0;
+    s.add(error, [&] {
+      return "samples " + hex(first) + ", " + hex(second) + " " + std::to_string(interval) +
+             " ticks apart, then " + std::to_string(ahead);
+    });
+  }
+  return s;
+}
+
 // ---- round trips ----
 
 template <typename Q>
@@ -398,7 +577,8 @@ std::vector<error_stats> sweep_arithmetic(const sweep_options& options) {
 }
 
 std::vector<error_stats> sweep_sin_cos(const sweep_options& options) {
-  return {sin_cos_q15(), sin_cos_q31(options)};
+  return {sin_cos_q15(),
+          options.exhaustive_sin_cos_q31 ? sin_cos_q31_exhaustive(options, nullptr) : sin_cos_q31(options)};
 }
 
 std::vector<error_stats> sweep_clarke(const sweep_options& options) {
@@ -422,6 +602,10 @@ std::vector<error_stats> sweep_modulation(const sweep_options& options) {
   return rows;
 }
 
+std::vector<error_stats> sweep_rotor_angle(const sweep_options& options) {
+  return {interpolator_row<16>(options), interpolator_row<32>(options)};
+}
+
 std::vector<error_stats> sweep_round_trips(const sweep_options& options) {
   std::vector<error_stats> rows;
   round_trip_rows<q15>(options, rows);
@@ -429,13 +613,25 @@ std::vector<error_stats> sweep_round_trips(const sweep_options& options) {
   return rows;
 }
 
-std::vector<error_stats> sweep_all(const sweep_options& options) {
+std::vector<error_stats> sweep_report(const sweep_options& options, plot_data* plots) {
   std::vector<error_stats> rows;
   for (auto* sweep : {&sweep_arithmetic, &sweep_sin_cos, &sweep_clarke, &sweep_park, &sweep_modulation,
-                      &sweep_round_trips}) {
+                      &sweep_rotor_angle, &sweep_round_trips}) {
+    if (sweep == &sweep_sin_cos) {
+      rows.push_back(sin_cos_q15());
+      rows.push_back(options.exhaustive_sin_cos_q31 ? sin_cos_q31_exhaustive(options, plots)
+                                                    : sin_cos_q31(options));
+      continue;
+    }
     for (error_stats& s : sweep(options)) rows.push_back(std::move(s));
+  }
+  if (plots) {
+    sin_cos_q15_curve(*plots);
+    park_map(*plots);
   }
   return rows;
 }
+
+std::vector<error_stats> sweep_all(const sweep_options& options) { return sweep_report(options, nullptr); }
 
 }  // namespace rotorq::accuracy

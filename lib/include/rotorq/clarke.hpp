@@ -62,23 +62,34 @@ constexpr phases<int64_t> inverse_clarke_wide(stationary<fixed<F>> v) noexcept {
 
 }  // namespace detail
 
-// ---- amplitude-invariant ----
+namespace detail {
 
-constexpr stationary<q15> clarke(phases<q15> i) noexcept {
-  const int64_t a = i.a.raw(), b = i.b.raw(), c = i.c.raw();
-  return {detail::round_wide<15>(detail::wide<15>::times(2 * a - b - c, constants::one_third)),
-          detail::round_wide<15>(detail::wide<15>::times(b - c, constants::inv_sqrt3))};
+// Both forward transforms have the shape alpha = k_alpha (2a - b - c), beta = k_beta (b - c).
+// q15 forms the integer combinations first (|n| < 2^18) and multiplies once; q31 multiplies each
+// input, as its combinations would not fit 32 bits: |alpha| <= 4 k_alpha 2^62 and
+// |beta| <= 2 k_beta 2^62, both below 2^63 for the constants used (k_alpha <= 1/sqrt(6) ~ 0.41).
+template <int F>
+constexpr stationary<fixed<F>> forward_clarke(phases<fixed<F>> i, uint64_t k_alpha,
+                                              uint64_t k_beta) noexcept {
+  if constexpr (F == 15) {
+    const int64_t a = i.a.raw(), b = i.b.raw(), c = i.c.raw();
+    return {round_wide<15>(wide<15>::times(2 * a - b - c, k_alpha)),
+            round_wide<15>(wide<15>::times(b - c, k_beta))};
+  } else {
+    const int64_t alpha = 2 * wide<31>::times(i.a.raw(), k_alpha) - wide<31>::times(i.b.raw(), k_alpha) -
+                          wide<31>::times(i.c.raw(), k_alpha);
+    const int64_t beta = wide<31>::times(i.b.raw(), k_beta) - wide<31>::times(i.c.raw(), k_beta);
+    return {round_wide<31>(alpha), round_wide<31>(beta)};
+  }
 }
 
-constexpr stationary<q31> clarke(phases<q31> i) noexcept {
-  using detail::mul_q31_by_q62;
-  // |alpha62| <= (2/3 + 1/3 + 1/3) 2^62, |beta62| <= 2/sqrt(3) 2^62
-  const int64_t alpha62 = mul_q31_by_q62(i.a.raw(), constants::two_thirds) -
-                          mul_q31_by_q62(i.b.raw(), constants::one_third) -
-                          mul_q31_by_q62(i.c.raw(), constants::one_third);
-  const int64_t beta62 =
-      mul_q31_by_q62(i.b.raw(), constants::inv_sqrt3) - mul_q31_by_q62(i.c.raw(), constants::inv_sqrt3);
-  return {detail::round_wide<31>(alpha62), detail::round_wide<31>(beta62)};
+}  // namespace detail
+
+// ---- amplitude-invariant ----
+
+template <int F>
+constexpr stationary<fixed<F>> clarke(phases<fixed<F>> i) noexcept {
+  return detail::forward_clarke(i, constants::one_third, constants::inv_sqrt3);
 }
 
 constexpr stationary<q15> clarke_balanced(q15 a, q15 b) noexcept {
@@ -101,21 +112,9 @@ constexpr phases<fixed<F>> inverse_clarke(stationary<fixed<F>> v) noexcept {
 
 // ---- power-invariant ----
 
-constexpr stationary<q15> clarke_power_invariant(phases<q15> i) noexcept {
-  const int64_t a = i.a.raw(), b = i.b.raw(), c = i.c.raw();
-  return {detail::round_wide<15>(detail::wide<15>::times(2 * a - b - c, constants::inv_sqrt6)),
-          detail::round_wide<15>(detail::wide<15>::times(b - c, constants::inv_sqrt2))};
-}
-
-constexpr stationary<q31> clarke_power_invariant(phases<q31> i) noexcept {
-  using detail::mul_q31_by_q62;
-  // |alpha62| <= (2/sqrt(6) + 2/sqrt(6)) 2^62, |beta62| <= 2/sqrt(2) 2^62
-  const int64_t alpha62 = mul_q31_by_q62(i.a.raw(), constants::sqrt2_over_3) -
-                          mul_q31_by_q62(i.b.raw(), constants::inv_sqrt6) -
-                          mul_q31_by_q62(i.c.raw(), constants::inv_sqrt6);
-  const int64_t beta62 =
-      mul_q31_by_q62(i.b.raw(), constants::inv_sqrt2) - mul_q31_by_q62(i.c.raw(), constants::inv_sqrt2);
-  return {detail::round_wide<31>(alpha62), detail::round_wide<31>(beta62)};
+template <int F>
+constexpr stationary<fixed<F>> clarke_power_invariant(phases<fixed<F>> i) noexcept {
+  return detail::forward_clarke(i, constants::inv_sqrt6, constants::inv_sqrt2);
 }
 
 template <int F>

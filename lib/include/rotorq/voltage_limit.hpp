@@ -58,7 +58,9 @@ constexpr int32_t sqrt_q62_to_raw(uint64_t s) noexcept {
   // sqrt(S) = S / sqrt(S): the mantissa of S, (s << shift) >> 32 = M in Q32, times 1/sqrt(M) in Q30,
   // gives sqrt(M) in Q30; then sqrt(S) = sqrt(M) 2^(1 - shift/2) = sqrt(M) 2^(-exponent).
   const int shift = leading_zeros(s) & ~1;
+  // cppcheck-suppress shiftTooManyBits ; s is a 64-bit value
   const auto m = static_cast<uint32_t>((s << shift) >> 32);
+  // cppcheck-suppress shiftTooManyBits ; the product is a 64-bit value
   const auto root30 = static_cast<int64_t>((uint64_t{m} * inverse_root.mantissa) >> 32);
   const int64_t raw = scale_by_power_of_two(root30, F - 30 - inverse_root.exponent);
   return static_cast<int32_t>(raw < pow2(F) - 1 ? raw : pow2(F) - 1);

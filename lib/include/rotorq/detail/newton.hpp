@@ -43,6 +43,7 @@ constexpr int leading_zeros(uint32_t x) noexcept {
 // start on this interval, relative error <= 1/17) and take three Newton steps R <- R (2 - M R).
 constexpr uint32_t reciprocal_q30(uint32_t m) noexcept {
   // 48/17 and 32/17 in Q30
+  // cppcheck-suppress shiftTooManyBits ; the product is a 64-bit value
   uint64_t r = 3031741620u - ((uint64_t{2021161081u} * m) >> 32);
   for (int step = 0; step < 3; ++step) {
     const uint64_t mr = (uint64_t{m} * r) >> 32;  // M R in Q30, close to 2^30
@@ -122,6 +123,7 @@ constexpr int64_t scale_by_power_of_two(int64_t x, int shift) noexcept {
 // floor(v * r / 2^30) for r <= 2^30 and |v r / 2^30| < 2^62, splitting v so that no product
 // overflows.
 constexpr int64_t multiply_q30(int64_t v, uint32_t r) noexcept {
+  // cppcheck-suppress unreadVariable ; read in the return statement
   const int64_t high = v >> 32;                                                   // |high| < 2^31
   const auto low = static_cast<int64_t>(static_cast<uint64_t>(v) & 0xffffffffu);  // [0, 2^32)
   return high * int64_t{r} * 4 + ((low * int64_t{r}) >> 30);
