@@ -20,6 +20,8 @@
 #include <utility>
 #include <vector>
 
+#include "test_support.hpp"
+
 namespace {
 
 using rotorq::accumulator;
@@ -31,9 +33,6 @@ static_assert(std::is_same_v<accumulator<q31>::value_type, q31>);
 
 using wide = __int128;  // host-only exact reference
 
-// A sweep stops after this many mismatches, so one broken rule prints a few lines, not a million.
-constexpr int max_reported = 10;
-
 // Random inputs come from fixed seeds. The output of std::mt19937_64 is fixed by the C++ standard but
 // the std distributions and std::shuffle are not, so values are cut from the raw bits and shuffles
 // are written out: the same seed gives the same inputs with every standard library.
@@ -44,19 +43,6 @@ constexpr uint64_t seed_hover = 0xacc00004;
 constexpr uint64_t seed_order = 0xacc00005;
 
 constexpr wide pow2(int n) { return wide{1} << n; }
-
-// "raw 0x8000 (-32768)": a raw value as two's-complement hex, `bits` wide, and in decimal.
-std::string raw_hex(int64_t raw, int bits) {
-  const uint64_t mask = bits >= 64 ? ~uint64_t{0} : (uint64_t{1} << bits) - 1;
-  std::ostringstream text;
-  text << "raw 0x" << std::hex << std::setfill('0') << std::setw(bits / 4)
-       << (static_cast<uint64_t>(raw) & mask) << std::dec << " (" << raw << ")";
-  return text.str();
-}
-template <int F>
-std::string raw_hex(rotorq::fixed<F> x) {
-  return raw_hex(x.raw(), F + 1);
-}
 
 // An exact sum in decimal, and in units of 2^64 plus a 64-bit two's-complement remainder in hex, which
 // is how the accumulator holds it.
@@ -77,15 +63,11 @@ std::string wide_text(wide v) {
   return text.str();
 }
 
-template <typename Q>
-constexpr int64_t raw_lo = std::numeric_limits<typename Q::raw_type>::min();
-template <typename Q>
-constexpr int64_t raw_hi = std::numeric_limits<typename Q::raw_type>::max();
-
-template <typename Q>
-Q from_wide(int64_t raw) {
-  return Q::from_raw(static_cast<typename Q::raw_type>(raw));
-}
+using rotorq::test::from_wide;
+using rotorq::test::max_reported;
+using rotorq::test::raw_hex;
+using rotorq::test::raw_hi;
+using rotorq::test::raw_lo;
 
 // The expected result for an exact sum at 2F fraction bits: q = floor(sum / 2^F) and r = sum - q 2^F
 // in [0, 2^F); round up when r >= 2^F / 2 (ties toward +infinity: common practice, no source), then

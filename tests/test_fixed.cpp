@@ -19,6 +19,8 @@
 #include <type_traits>
 #include <vector>
 
+#include "test_support.hpp"
+
 namespace {
 
 using rotorq::q15;
@@ -26,9 +28,6 @@ using rotorq::q31;
 
 static_assert(std::is_same_v<q15::raw_type, int16_t>);
 static_assert(std::is_same_v<q31::raw_type, int32_t>);
-
-// A sweep stops after this many mismatches, so one broken rule prints a few lines, not a million.
-constexpr int max_reported = 10;
 
 // Random inputs come from fixed seeds. The output of std::mt19937_64 is fixed by the C++ standard but
 // the std distributions are not, so values are cut from the raw bits: the same seed gives the same
@@ -42,34 +41,12 @@ constexpr uint64_t seed_addends = 0x5eed0006;
 
 constexpr int random_q31_pairs = 1'000'000;
 
-// "raw 0x8000 (-32768)": a raw value as two's-complement hex, `bits` wide, and in decimal.
-std::string raw_hex(int64_t raw, int bits) {
-  const uint64_t mask = bits >= 64 ? ~uint64_t{0} : (uint64_t{1} << bits) - 1;
-  std::ostringstream text;
-  text << "raw 0x" << std::hex << std::setfill('0') << std::setw(bits / 4)
-       << (static_cast<uint64_t>(raw) & mask) << std::dec << " (" << raw << ")";
-  return text.str();
-}
-template <int F>
-std::string raw_hex(rotorq::fixed<F> x) {
-  return raw_hex(x.raw(), F + 1);
-}
-
-// The raw range of a format, taken from the raw type rather than from the library's constants.
-template <typename Q>
-constexpr int64_t raw_lo = std::numeric_limits<typename Q::raw_type>::min();
-template <typename Q>
-constexpr int64_t raw_hi = std::numeric_limits<typename Q::raw_type>::max();
-
-template <typename Q>
-int64_t saturated(int64_t exact) {
-  return std::clamp(exact, raw_lo<Q>, raw_hi<Q>);
-}
-
-template <typename Q>
-Q from_wide(int64_t raw) {
-  return Q::from_raw(static_cast<typename Q::raw_type>(raw));
-}
+using rotorq::test::from_wide;
+using rotorq::test::max_reported;
+using rotorq::test::raw_hex;
+using rotorq::test::raw_hi;
+using rotorq::test::raw_lo;
+using rotorq::test::saturated;
 
 // floor(n / d) for d > 0: C++ division truncates toward zero, so step down when a negative n leaves
 // a remainder.

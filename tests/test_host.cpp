@@ -19,6 +19,8 @@
 #include <string>
 #include <vector>
 
+#include "test_support.hpp"
+
 namespace {
 
 using rotorq::q15;
@@ -27,9 +29,6 @@ using rotorq::turn16;
 using rotorq::turn32;
 
 using wide = __int128;  // host-only exact reference for the angle conversions
-
-// A sweep stops after this many mismatches, so one broken rule prints a few lines, not a million.
-constexpr int max_reported = 10;
 
 // Random inputs come from fixed seeds. The output of std::mt19937_64 is fixed by the C++ standard but
 // the std distributions are not, so values are cut from the raw bits: the same seed gives the same
@@ -48,22 +47,12 @@ constexpr double quiet_nan = std::numeric_limits<double>::quiet_NaN();
 constexpr double pi = 3.141592653589793238462643383279502884197;
 constexpr long double two_pi_long = 6.283185307179586476925286766559005768394L;
 
-// "raw 0x8000 (-32768)": a raw value as two's-complement hex, `bits` wide, and in decimal.
-std::string raw_hex(int64_t raw, int bits) {
-  const uint64_t mask = bits >= 64 ? ~uint64_t{0} : (uint64_t{1} << bits) - 1;
-  std::ostringstream text;
-  text << "raw 0x" << std::hex << std::setfill('0') << std::setw(bits / 4)
-       << (static_cast<uint64_t>(raw) & mask) << std::dec << " (" << raw << ")";
-  return text.str();
-}
-template <int F>
-std::string raw_hex(rotorq::fixed<F> x) {
-  return raw_hex(x.raw(), F + 1);
-}
-template <int N>
-std::string raw_hex(rotorq::turn<N> t) {
-  return raw_hex(int64_t{t.raw()}, N);
-}
+using rotorq::test::from_wide;
+using rotorq::test::max_reported;
+using rotorq::test::raw_hex;
+using rotorq::test::raw_hi;
+using rotorq::test::raw_lo;
+using rotorq::test::saturated;
 
 // A double in hex (exact) and in decimal: "0x1.8p-1 (0.75)".
 std::string double_text(double x) {
@@ -95,16 +84,6 @@ rotorq::turn<N> from_radians(double radians) {
   } else {
     return rotorq::turn32_from_radians(radians);
   }
-}
-
-template <typename Q>
-constexpr int64_t raw_lo = -(int64_t{1} << Q::fraction_bits);
-template <typename Q>
-constexpr int64_t raw_hi = (int64_t{1} << Q::fraction_bits) - 1;
-
-template <typename Q>
-int64_t saturated(int64_t raw) {
-  return raw < raw_lo<Q> ? raw_lo<Q> : raw > raw_hi<Q> ? raw_hi<Q> : raw;
 }
 
 constexpr int64_t turn_steps(int bits) { return int64_t{1} << bits; }

@@ -16,6 +16,8 @@
 #include <type_traits>
 #include <vector>
 
+#include "test_support.hpp"
+
 namespace {
 
 using rotorq::turn16;
@@ -26,8 +28,8 @@ static_assert(std::is_same_v<turn32::raw_type, uint32_t>);
 static_assert(std::is_same_v<turn16::difference_type, int16_t>);
 static_assert(std::is_same_v<turn32::difference_type, int32_t>);
 
-// A sweep stops after this many mismatches, so one broken rule prints a few lines, not a million.
-constexpr int max_reported = 10;
+using rotorq::test::max_reported;
+using rotorq::test::raw_hex;
 
 // Random inputs come from fixed seeds. The output of std::mt19937_64 is fixed by the C++ standard but
 // the std distributions are not, so values are cut from the raw bits: the same seed gives the same
@@ -54,19 +56,6 @@ constexpr bool sanitized_build = false;
 #endif
 
 constexpr int64_t turn_steps(int bits) { return int64_t{1} << bits; }
-
-// "raw 0x8000 (32768)": a raw value as hex, `bits` wide, and in decimal.
-std::string raw_hex(int64_t raw, int bits) {
-  const uint64_t mask = bits >= 64 ? ~uint64_t{0} : (uint64_t{1} << bits) - 1;
-  std::ostringstream text;
-  text << "raw 0x" << std::hex << std::setfill('0') << std::setw(bits / 4)
-       << (static_cast<uint64_t>(raw) & mask) << std::dec << " (" << raw << ")";
-  return text.str();
-}
-template <int N>
-std::string raw_hex(rotorq::turn<N> t) {
-  return raw_hex(int64_t{t.raw()}, N);
-}
 
 template <int N>
 rotorq::turn<N> turn_at(int64_t raw) {

@@ -140,7 +140,7 @@ stationary<Q> random_unit_disc(std::mt19937_64& rng) {
 bool is_correctly_rounded(const std::string& function) {
   for (const char* name : {"operator*", "mul_add", "accumulator (4 products)", "clarke", "clarke_balanced",
                            "inverse_clarke", "clarke_power_invariant", "inverse_clarke_power_invariant",
-                           "park", "inverse_park", "svpwm (linear range)"}) {
+                           "park", "inverse_park", "svpwm (linear range)", "sine_pwm (linear range)"}) {
     if (function == name) return true;
   }
   return false;
@@ -151,7 +151,7 @@ bool is_correctly_rounded(const std::string& function) {
 // the bus), the modulators duty cycles.
 quantity kind_of(const std::string& function) {
   if (function == "sin_cos") return quantity::angle;
-  if (function.rfind("svpwm", 0) == 0) return quantity::duty;
+  if (function.rfind("svpwm", 0) == 0 || function.rfind("sine_pwm", 0) == 0) return quantity::duty;
   if (function.rfind("inverse_", 0) == 0 || function.rfind("limit_", 0) == 0 ||
       function == "bus_normalizer") {
     return quantity::voltage;
@@ -445,6 +445,7 @@ void modulation_rows(const sweep_options& options, std::vector<error_stats>& row
   const std::string inputs = std::to_string(options.random_inputs) + " random";
   error_stats linear =
       make_stats<Q>("svpwm (linear range)", inputs + " |v| <= 1/sqrt(3)", bound::svpwm_linear);
+  error_stats sine = make_stats<Q>("sine_pwm (linear range)", inputs + " |v| <= 1/2", bound::svpwm_linear);
   error_stats circle =
       make_stats<Q>("svpwm (circle limit)", inputs + " |v| <= sqrt(2)",
                     Q::fraction_bits == 15 ? bound::overmodulation_q15 : bound::overmodulation_q31);
@@ -470,6 +471,11 @@ void modulation_rows(const sweep_options& options, std::vector<error_stats>& row
         Q::saturate(static_cast<int64_t>(static_cast<double>(v.beta.raw()) * inscribed / 1.4143))};
     const modulation<Q> lin = svpwm(u, overmodulation::hexagon);
     add_outputs(linear, lin.duty, ref::svpwm_dwell_time(ref::to_double(u)), [&] { return describe(u); });
+    // sine PWM's linear range is the circle of radius 1/2
+    const stationary<Q> h{
+        Q::saturate(static_cast<int64_t>(static_cast<double>(v.alpha.raw()) * 0.5 / 1.4143)),
+        Q::saturate(static_cast<int64_t>(static_cast<double>(v.beta.raw()) * 0.5 / 1.4143))};
+    add_outputs(sine, sine_pwm(h).duty, ref::sine_pwm(ref::to_double(h)).duty, [&] { return describe(h); });
     if (length > inscribed) {
       add_outputs(circle, svpwm(v, overmodulation::circle).duty, ref::svpwm_min_max(x, true).duty, dv);
       add_outputs(hexagon, svpwm(v, overmodulation::hexagon).duty, ref::svpwm_min_max(x, false).duty, dv);
@@ -489,7 +495,8 @@ void modulation_rows(const sweep_options& options, std::vector<error_stats>& row
     bus.add(lsb_error(normalizer.normalize(v.alpha), x.alpha / to_double(bus_voltage)),
             [&] { return "v=" + hex(v.alpha) + " bus=" + hex(bus_voltage); });
   }
-  for (error_stats* s : {&linear, &circle, &hexagon, &magnitude, &d_priority, &bus}) rows.push_back(*s);
+  for (error_stats* s : {&linear, &sine, &circle, &hexagon, &magnitude, &d_priority, &bus})
+    rows.push_back(*s);
 }
 
 // ---- rotor angle ----

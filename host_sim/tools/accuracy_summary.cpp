@@ -89,6 +89,16 @@ std::string physical_text(const error_stats& r, const drive_units& u) {
   return text;
 }
 
+// A table cell: a literal | would end the cell.
+std::string cell(const std::string& text) {
+  std::string out;
+  for (char c : text) {
+    if (c == '|') out += '\\';
+    out += c;
+  }
+  return out;
+}
+
 std::string markdown_table(const std::vector<error_stats>& rows, const rotorq::accuracy::sweep_options& o,
                            const drive_units& u) {
   std::string out;
@@ -100,7 +110,7 @@ std::string markdown_table(const std::vector<error_stats>& rows, const rotorq::a
   out += "|---|---|---|---:|---:|---:|---:|---:|\n";
   for (const error_stats& r : rows) {
     out += fmt::format("| `{}` | {} | {} | {:.4f} | {} | {:.4f} | {:+.5f} | {:.2f} |\n", r.function, r.format,
-                       r.inputs, r.max_abs, physical_text(r, u), r.rms(), r.mean(), r.bound);
+                       cell(r.inputs), r.max_abs, physical_text(r, u), r.rms(), r.mean(), r.bound);
   }
   out += fmt::format(
       "\nsin_cos table: {} bytes of read-only data, shared by q15 and q31; 1/sqrt start table: {} bytes.\n",

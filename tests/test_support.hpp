@@ -1,0 +1,52 @@
+// Helpers shared by the test suites: how a failing check prints a value, and the raw range of a
+// format taken from its raw type (not from the library's constants, which are under test).
+#pragma once
+
+#include <algorithm>
+#include <cstdint>
+#include <iomanip>
+#include <limits>
+#include <sstream>
+#include <string>
+
+#include "rotorq/fixed.hpp"
+#include "rotorq/turn.hpp"
+
+namespace rotorq::test {
+
+// A sweep stops after this many mismatches, so one broken rule prints a few lines, not a million.
+constexpr int max_reported = 10;
+
+// "raw 0x8000 (-32768)": a raw value as two's-complement hex, `bits` wide, and in decimal.
+inline std::string raw_hex(int64_t raw, int bits) {
+  const uint64_t mask = bits >= 64 ? ~uint64_t{0} : (uint64_t{1} << bits) - 1;
+  std::ostringstream text;
+  text << "raw 0x" << std::hex << std::setfill('0') << std::setw(bits / 4)
+       << (static_cast<uint64_t>(raw) & mask) << std::dec << " (" << raw << ")";
+  return text.str();
+}
+template <int F>
+std::string raw_hex(fixed<F> x) {
+  return raw_hex(x.raw(), F + 1);
+}
+template <int N>
+std::string raw_hex(turn<N> t) {
+  return raw_hex(int64_t{t.raw()}, N);
+}
+
+template <typename Q>
+constexpr int64_t raw_lo = std::numeric_limits<typename Q::raw_type>::min();
+template <typename Q>
+constexpr int64_t raw_hi = std::numeric_limits<typename Q::raw_type>::max();
+
+template <typename Q>
+int64_t saturated(int64_t exact) {
+  return std::clamp(exact, raw_lo<Q>, raw_hi<Q>);
+}
+
+template <typename Q>
+Q from_wide(int64_t raw) {
+  return Q::from_raw(static_cast<typename Q::raw_type>(raw));
+}
+
+}  // namespace rotorq::test
