@@ -8,6 +8,7 @@
 
 #include <cmath>
 #include <cstdint>
+#include <cstdlib>
 #include <iomanip>
 #include <limits>
 #include <sstream>
@@ -484,6 +485,292 @@ TEST(BadInput, H4_AngleToDoubleStaysInsideTheHalfOpenRange) {
   EXPECT_LT(to_degrees(turn16::from_raw(0xffff)), 360.0);
   EXPECT_EQ(to_degrees(turn16::from_raw(0)), 0.0);
   EXPECT_GT(to_radians(last), 6.28318530);
+}
+
+// ---- svpwm.hpp, voltage_limit.hpp, dc_bus.hpp, pwm_compare.hpp ------------------------------------
+
+template <int F>
+void check_svpwm_malformed() {
+  using Q = fixed<F>;
+  const Q minus_one_raw = Q::from_raw(-1);
+  for (overmodulation mode : {overmodulation::circle, overmodulation::hexagon}) {
+    SCOPED_TRACE(mode == overmodulation::circle ? "circle" : "hexagon");
+    // full scale (-1, -1), 225 degrees: far beyond the hexagon, limited, duties inside [0, max]
+    const modulation<Q> full = svpwm(stationary<Q>{Q::min(), Q::min()}, mode);
+    EXPECT_TRUE(full.limited);
+    EXPECT_EQ(full.sector, 4);  // [180, 240) degrees
+    for (Q d : {full.duty.a, full.duty.b, full.duty.c}) EXPECT_GE(d.raw(), 0) << raw_hex(d);
+    // (-1 raw, -1 raw): a tiny vector, linear, centred duties, sector of 225 degrees
+    const modulation<Q> tiny = svpwm(stationary<Q>{minus_one_raw, minus_one_raw}, mode);
+    EXPECT_FALSE(tiny.limited);
+    EXPECT_EQ(tiny.sector, 4);
+    EXPECT_LE(std::llabs(int64_t{tiny.duty.a.raw()} - (limits<F>::max + 1) / 2), 2) << raw_hex(tiny.duty.a);
+    // the zero vector: all duties 1/2, sector 1
+    const modulation<Q> zero = svpwm(stationary<Q>{}, mode);
+    EXPECT_EQ(raw_hex(zero.duty.a), want<F>((limits<F>::max + 1) / 2));
+    EXPECT_EQ(zero.sector, 1);
+    EXPECT_FALSE(zero.limited);
+  }
+  // sine PWM at full scale clamps; six-step of the zero vector has every phase on (v_x >= 0)
+  const modulation<Q> sine = sine_pwm(stationary<Q>{Q::max(), Q::zero()});
+  EXPECT_TRUE(sine.limited);
+  EXPECT_EQ(raw_hex(sine.duty.a), want<F>(limits<F>::max));
+  const modulation<Q> six = six_step(stationary<Q>{});
+  EXPECT_EQ(raw_hex(six.duty.b), want<F>(limits<F>::max));
+  EXPECT_EQ(six.sector, 1);
+  const modulation<Q> six_full = six_step(stationary<Q>{Q::min(), Q::min()});
+  EXPECT_FALSE(six_full.limited);
+  EXPECT_EQ(six_full.sector, 5);  // nearest active vector to 225 degrees: V5 at 240 (001)
+}
+TEST(BadInput, M1_SvpwmOfMalformedRequestsStaysInsideInBothModes) {
+  SCOPED_TRACE("contract rows M1, M2, M3: svpwm, sine_pwm, six_step");
+  check_svpwm_malformed<15>();
+  check_svpwm_malformed<31>();
+}
+
+template <int F>
+void check_negative_limits() {
+  using Q = fixed<F>;
+  const Q minus = Q::from_raw(-5);
+  const limited<stationary<Q>> s = limit_magnitude(stationary<Q>{Q::max(), Q::min()}, minus);
+  EXPECT_TRUE(s.clipped);
+  EXPECT_EQ(raw_hex(s.value.alpha), want<F>(0));
+  EXPECT_EQ(raw_hex(s.value.beta), want<F>(0));
+  EXPECT_FALSE(limit_magnitude(stationary<Q>{}, minus).clipped);  // |0| is not above 0
+  const limited<rotating<Q>> r = limit_magnitude(rotating<Q>{Q::min(), Q::min()}, Q::max());
+  EXPECT_TRUE(r.clipped);  // |(-1, -1)| = sqrt(2): scaled onto the limit
+  EXPECT_LE(std::llabs(r.value.d.raw() + std::llround(limits<F>::max * 0.70710678118654752)), F == 15 ? 1 : 8)
+      << raw_hex(r.value.d);  // -1/sqrt(2)
+  const limited<rotating<Q>> d = limit_d_priority(rotating<Q>{Q::min(), Q::max()}, minus);
+  EXPECT_TRUE(d.clipped);
+  EXPECT_EQ(raw_hex(d.value.d), want<F>(0));
+  EXPECT_EQ(raw_hex(d.value.q), want<F>(0));
+  const limited<rotating<Q>> full = limit_d_priority(rotating<Q>{Q::min(), Q::max()}, Q::max());
+  EXPECT_EQ(raw_hex(full.value.d), want<F>(-limits<F>::max));  // d first, clamped to -m
+  EXPECT_LE(std::llabs(int64_t{full.value.q.raw()}), F == 15 ? 256 : 65536) << raw_hex(full.value.q);
+}
+TEST(BadInput, L1_LimitersTreatANegativeLimitAsZero) {
+  SCOPED_TRACE("contract rows L1, L2: limit_magnitude, limit_d_priority");
+  check_negative_limits<15>();
+  check_negative_limits<31>();
+}
+
+template <int F>
+void check_bad_bus() {
+  using Q = fixed<F>;
+  bus_normalizer<Q> bus(Q::from_raw(100));
+  EXPECT_FALSE(bus.valid());
+  EXPECT_EQ(raw_hex(bus.normalize(Q::max())), want<F>(0));  // before the first update
+  for (int64_t raw : {int64_t{0}, int64_t{-1}, limits<F>::min, int64_t{100}}) {
+    EXPECT_FALSE(bus.update(Q::from_raw(static_cast<typename Q::raw_type>(raw)))) << raw;
+    EXPECT_EQ(raw_hex(bus.normalize(Q::max())), want<F>(0)) << raw;
+  }
+  EXPECT_TRUE(bus.update(Q::from_raw(101)));                                      // just above the minimum
+  EXPECT_EQ(raw_hex(bus.normalize(Q::from_raw(1000))), want<F>(limits<F>::max));  // above the bus: saturate
+  EXPECT_EQ(raw_hex(bus.normalize(Q::min())), want<F>(limits<F>::min));
+  bus_normalizer<Q> any(Q::from_raw(-7));  // a minimum <= 0 counts as one raw step
+  EXPECT_FALSE(any.update(Q::from_raw(1)));
+  EXPECT_TRUE(any.update(Q::from_raw(2)));
+  EXPECT_EQ(raw_hex(any.normalize(Q::from_raw(1))), want<F>(limits<F>::max / 2 + 1));  // 1/2, rounded up
+}
+TEST(BadInput, B1_BusAtOrBelowItsMinimumGivesZero) {
+  SCOPED_TRACE("contract row B1: bus_normalizer");
+  check_bad_bus<15>();
+  check_bad_bus<31>();
+}
+
+template <int F>
+void check_bad_periods() {
+  using Q = fixed<F>;
+  const phases<Q> duty{Q::max(), Q::min(), Q::from_raw(1)};
+  const compare_values none = duty_to_compare(duty, 0, 5);
+  EXPECT_EQ(none.compare.a, 0u);
+  EXPECT_EQ(none.compare.b, 0u);
+  EXPECT_FALSE(none.clipped);
+  const compare_values one = duty_to_compare(duty, 1, 1000);  // min_pulse capped to period / 2 = 0
+  EXPECT_EQ(one.compare.a, 1u);
+  EXPECT_EQ(one.compare.b, 0u);  // a negative duty counts as 0
+  EXPECT_FALSE(one.clipped);
+  // oversized minimum pulse: capped to period / 2 = 50; 1/4 duty (25) widens to 50, 10 % goes to 0
+  const phases<Q> small{Q::from_raw(static_cast<typename Q::raw_type>((limits<F>::max + 1) / 4)),
+                        Q::from_raw(static_cast<typename Q::raw_type>((limits<F>::max + 1) / 10)), Q::max()};
+  const compare_values capped = duty_to_compare(small, 100, 0xffffffffu);
+  EXPECT_EQ(capped.compare.a, 50u);
+  EXPECT_EQ(capped.compare.b, 0u);
+  EXPECT_EQ(capped.compare.c, 100u);
+  EXPECT_TRUE(capped.clipped);
+  EXPECT_EQ(duty_to_compare(phases<Q>{Q::max(), Q::max(), Q::max()}, 0xffffffffu).compare.a,
+            F == 15 ? 0xfffdffffu : 0xfffffffdu);  // round((1 - 2^-F) period)
+}
+TEST(BadInput, W1_PeriodZeroOrOneAndOversizedMinimumPulses) {
+  SCOPED_TRACE("contract row W1: duty_to_compare");
+  check_bad_periods<15>();
+  check_bad_periods<31>();
+}
+
+uint32_t distance_steps(turn32 a, turn32 b) {
+  const int32_t d = signed_difference(a, b);
+  return d < 0 ? 0u - static_cast<uint32_t>(d) : static_cast<uint32_t>(d);
+}
+
+// ---- hall.hpp, hall_tracker.hpp, angle_interpolator.hpp, electrical_speed.hpp, commutation.hpp --------
+
+TEST(BadInput, R1_ImpossibleHallCodesAreInvalid) {
+  SCOPED_TRACE("contract row R1: decode_hall, hall_code");
+  for (uint8_t code : {uint8_t{0}, uint8_t{7}, uint8_t{0xf8}, uint8_t{0xff}}) {
+    EXPECT_FALSE(decode_hall(code).valid) << int{code};
+    EXPECT_EQ(decode_hall(code).sector, 0) << int{code};
+  }
+  EXPECT_FALSE(decode_hall(0b010, hall_placement::spaced_60).valid);
+  EXPECT_FALSE(decode_hall(0b101, hall_placement::spaced_60).valid);
+  EXPECT_EQ(decode_hall(0b11111101).sector, 0);  // bits above 2 ignored: 0b101
+  EXPECT_EQ(hall_code(6), hall_code(0));         // sector taken modulo 6
+  EXPECT_EQ(hall_code(255), hall_code(3));
+}
+
+TEST(BadInput, R2_GlitchFilterDropsBouncesAndSurvivesTimerWrap) {
+  SCOPED_TRACE("contract row R2: hall_glitch_filter");
+  hall_glitch_filter<16> filter(10);
+  EXPECT_FALSE(filter.update(1, 0).happened);
+  const hall_edge<16> first = filter.update(1, 10);
+  EXPECT_TRUE(first.happened);
+  EXPECT_EQ(first.time, 0);                     // dated at its first reading
+  EXPECT_FALSE(filter.update(2, 20).happened);  // a bounce ...
+  EXPECT_FALSE(filter.update(1, 22).happened);  // ... that came back: forgotten
+  EXPECT_FALSE(filter.update(2, 25).happened);
+  EXPECT_FALSE(filter.update(2, 34).happened);  // held 9 < 10
+  const hall_edge<16> second = filter.update(2, 35);
+  EXPECT_TRUE(second.happened);
+  EXPECT_EQ(second.time, 25);
+  // the 16-bit timer wraps between first reading and confirmation
+  EXPECT_FALSE(filter.update(3, 65530).happened);
+  const hall_edge<16> wrapped = filter.update(3, 4);
+  EXPECT_TRUE(wrapped.happened);
+  EXPECT_EQ(wrapped.time, 65530);
+  EXPECT_EQ(hall_glitch_filter<16>(0xffffffffu).min_dwell(), 32767u);  // capped below half the range
+}
+
+// the 120-degree code of sector s
+constexpr uint8_t code_of(uint8_t s) { return hall_code(s); }
+
+TEST(BadInput, R3_HallTrackerInvalidCodesStallReversalAndBackwardJump) {
+  SCOPED_TRACE("contract row R3: hall_tracker");
+  hall_tracker_config config{};
+  config.stall_timeout = 5000;
+  hall_tracker<32> tracker(config);
+  EXPECT_EQ(tracker.estimate(0).source, angle_source::none);
+  for (uint8_t s = 0; s < 4; ++s) tracker.update(code_of(s), uint32_t{s} * 1000);
+  hall_estimate e = tracker.estimate(3500);
+  EXPECT_EQ(e.source, angle_source::interpolated);
+  EXPECT_EQ(e.direction, rotation::forward);
+  EXPECT_LE(distance_steps(e.angle, turn32_from_degrees(210.0)), 64u) << raw_hex(e.angle);
+  tracker.update(0b000, 3600);  // invalid: the sector is held, and counted
+  tracker.update(0b111, 3700);
+  e = tracker.estimate(3700);
+  EXPECT_TRUE(e.invalid_code);
+  EXPECT_EQ(e.sector, 3);
+  EXPECT_EQ(tracker.invalid_codes(), 2u);
+  // stall: no edge for stall_timeout ticks
+  tracker.update(code_of(3), 8000);
+  e = tracker.estimate(8000);
+  EXPECT_TRUE(e.stalled);
+  EXPECT_EQ(e.speed.raw(), 0);
+  EXPECT_EQ(e.source, angle_source::sector_centre);
+  EXPECT_EQ(e.angle, config.calibration.entry_forward[4]);  // held where it was (at the next edge) ...
+  tracker.update(code_of(3), 8001);
+  EXPECT_EQ(tracker.estimate(8001).angle, sector_centre(config.calibration, 3));  // ... then slewed
+  // reversal: back into sector 2; no speed yet, the angle goes to its centre
+  tracker.update(code_of(2), 8500);
+  e = tracker.estimate(8600);
+  EXPECT_EQ(e.direction, rotation::backward);
+  EXPECT_EQ(e.source, angle_source::sector_centre);
+  EXPECT_EQ(e.angle, sector_centre(config.calibration, 2));
+  EXPECT_FALSE(e.stalled);
+}
+
+TEST(BadInput, R3_HallTrackerBackwardJumpIsLimited) {
+  SCOPED_TRACE("contract row R3: hall_tracker, max_backward_jump");
+  // a table whose edge into sector 2 (70 degrees) lies 27.5 degrees behind the centre of sector 1
+  // (97.5 degrees, moved by an edge from 2 into 1 at 200 degrees)
+  hall_tracker_config config{};
+  config.calibration.entry_forward[2] = turn32_from_degrees(70.0);
+  config.calibration.entry_backward[1] = turn32_from_degrees(200.0);
+  config.max_backward_jump = turn32::from_raw(0x0e38e38e);  // 20 degrees
+  const turn32 centre = sector_centre(config.calibration, 1);
+  for (const turn32 jump : {config.max_backward_jump, turn32_from_degrees(90.0)}) {
+    config.max_backward_jump = jump;
+    hall_tracker<32> tracker(config);
+    for (uint8_t s = 0; s < 3; ++s) tracker.update(code_of(s), uint32_t{s} * 1000);
+    const hall_estimate e = tracker.estimate(2000);
+    EXPECT_EQ(e.source, angle_source::interpolated);
+    const turn32 expected = jump.raw() == 0x0e38e38e ? centre - jump : config.calibration.entry_forward[2];
+    EXPECT_EQ(raw_hex(e.angle), raw_hex(expected)) << "jump " << raw_hex(jump);
+  }
+}
+
+TEST(BadInput, R4_AngleInterpolatorBeforeSamplesSameTimeAndStale) {
+  SCOPED_TRACE("contract row R4: angle_interpolator");
+  angle_interpolator<16> position(100);
+  EXPECT_FALSE(position.estimate(5).valid);
+  EXPECT_EQ(position.angle(5).raw(), 0u);
+  position.update(turn32::from_raw(0), 0);
+  position.update(turn32::from_raw(1000), 10);  // 100 steps per tick
+  position.update(turn32::from_raw(3000), 10);  // same timestamp: the speed is kept
+  EXPECT_EQ(position.estimate(20).angle.raw(), 4000u);
+  const interpolated_angle stale = position.estimate(10 + 500);
+  EXPECT_TRUE(stale.stale);
+  EXPECT_EQ(stale.angle.raw(), 13000u);                                     // stops at max_extrapolation
+  position.update(turn32::from_raw(0), static_cast<uint16_t>(10 + 40000));  // half the range or more apart
+  EXPECT_EQ(position.estimate(static_cast<uint16_t>(10 + 40000)).speed.raw(), 0);
+}
+
+TEST(BadInput, R5_SpeedFromZeroTicksAndHugeMotion) {
+  SCOPED_TRACE("contract rows R5, R6: speed_from_motion, steps_at, rpm_scale");
+  EXPECT_EQ(speed_from_motion(12345, 0).raw(), 0);
+  EXPECT_EQ(speed_from_motion(0, 7).raw(), 0);
+  EXPECT_EQ(speed_from_motion(int64_t{1} << 61, 1).raw(), electrical_speed::raw_max);
+  EXPECT_EQ(speed_from_motion(-(int64_t{1} << 61), 1).raw(), -electrical_speed::raw_max);
+  EXPECT_EQ(electrical_speed::from_raw(detail::int64_min).raw(), -electrical_speed::raw_max);
+  EXPECT_EQ(steps_at(electrical_speed::from_raw(-(int64_t{3} << 15)), 3), -4);  // -4.5 toward zero
+  EXPECT_EQ(rpm_scale(0, 1000).rpm_q8(electrical_speed::from_raw(int64_t{1} << 40)),
+            rpm_scale(1, 1000).rpm_q8(electrical_speed::from_raw(int64_t{1} << 40)));  // 0 pairs count as 1
+  EXPECT_EQ(rpm_scale(4, 0).rpm_q8(electrical_speed::from_raw(electrical_speed::raw_max)), 0);
+  EXPECT_EQ(rpm_scale(1, 0xffffffffu).rpm_q8(electrical_speed::from_raw(electrical_speed::raw_max)),
+            0x7fffffff);
+  EXPECT_EQ(rpm_scale(1, 0xffffffffu).rpm_q8(electrical_speed::from_raw(-electrical_speed::raw_max)),
+            -0x7fffffff);
+}
+
+TEST(BadInput, R7_CommutationOfUnknownTorqueAndOutOfRangeSectors) {
+  SCOPED_TRACE("contract row R7: commutation_sector, six_step_commutation, commutation_voltage");
+  const commutation_state off = six_step_commutation(2, rotation::unknown);
+  EXPECT_FALSE(off.active);
+  EXPECT_EQ(off.drive.a, phase_drive::floating);
+  EXPECT_EQ(commutation_voltage(off, q15::max()).alpha.raw(), 0);
+  EXPECT_EQ(six_step_commutation(7, rotation::forward).vector,
+            six_step_commutation(1, rotation::forward).vector);
+  EXPECT_EQ(six_step_commutation(255, rotation::backward).vector,
+            six_step_commutation(3, rotation::backward).vector);
+  const commutation_state on = six_step_commutation(0, rotation::forward);
+  EXPECT_EQ(commutation_voltage(on, q15::min()).beta.raw(), 0);  // a negative duty counts as 0
+  EXPECT_EQ(commutation_sector(turn32::from_raw(0xffffffffu)), 0);
+}
+
+TEST(BadInput, R8_HandoverWithUnknownTorqueStaysInSixStep) {
+  SCOPED_TRACE("contract row R8: foc_handover");
+  handover_config config{};
+  config.foc_above = electrical_speed::from_raw(1000);
+  config.six_step_below = electrical_speed::from_raw(500);
+  foc_handover handover(config);
+  const turn32 angle = turn32_from_degrees(10.0);
+  EXPECT_EQ(handover.update(angle, electrical_speed::from_raw(2000), rotation::unknown).mode,
+            drive_mode::six_step);
+  const drive_command foc = handover.update(angle, electrical_speed::from_raw(2000), rotation::forward);
+  EXPECT_EQ(foc.mode, drive_mode::foc);
+  EXPECT_EQ(foc.current_angle, foc.six_step.vector_angle);  // the switch moves nothing
+  const drive_command back = handover.update(angle, electrical_speed::from_raw(2000), rotation::unknown);
+  EXPECT_EQ(back.mode, drive_mode::six_step);  // unknown torque drops FOC at once
+  EXPECT_FALSE(back.six_step.active);
 }
 
 }  // namespace

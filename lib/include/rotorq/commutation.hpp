@@ -9,7 +9,8 @@
 // degrees. six_step_commutation(k, torque) picks the vector 90 degrees ahead of the sector centre in
 // the direction of the wanted torque (vector k + 1 forward, k + 4 backward), so over the sector the
 // vector stays within 90 +- 30 degrees of the rotor flux and the torque between cos 30 = 0.866 and 1
-// of its peak (geometry; common practice, no source). rotation::unknown floats all three phases.
+// of its peak (geometry; common practice, no source). rotation::unknown floats all three phases;
+// any other value than forward or unknown (a value cast from an integer) counts as backward.
 // With Hall sensors whose edges fall at 30 + 60 k degrees of rotor angle (the usual alignment for
 // six-step), commutation_sector(sector_centre(calibration, s)) switches exactly at the edges; with
 // other alignments, use the tracker's interpolated angle.

@@ -31,7 +31,8 @@
 // (q31) of exact limiting; the README lists the measured figures.
 //
 // Beside it, for comparison and for simulation:
-//   sine_pwm(v)   duty_x = 1/2 + v_x (no injection), linear for |v| <= 1/2, clamped to [0, 1]
+//   sine_pwm(v)   duty_x = 1/2 + v_x (no injection), linear for |v| <= 1/2, clamped to [0, 1];
+//                 in the linear range each duty is rounded once (0.5 LSB + 2^-15 LSB)
 //   six_step(v)   square wave: phase x fully on when v_x >= 0, off otherwise; the fundamental of
 //                 each phase-to-midpoint voltage is (2/pi) V_dc whatever |v|; `sector` is the
 //                 index k of the active vector V_k that the state is (V1 = a on, V2 = a and b on, ...)
