@@ -446,6 +446,10 @@ void modulation_rows(const sweep_options& options, std::vector<error_stats>& row
   error_stats linear =
       make_stats<Q>("svpwm (linear range)", inputs + " |v| <= 1/sqrt(3)", bound::svpwm_linear);
   error_stats sine = make_stats<Q>("sine_pwm (linear range)", inputs + " |v| <= 1/2", bound::svpwm_linear);
+  error_stats square = make_stats<Q>("six_step", inputs + " away from switching", bound::exact);
+  error_stats compare =
+      make_stats<Q>("duty_to_compare (counts)", inputs + " (duty, period, min pulse)", bound::exact);
+  compare.kind = quantity::value;
   error_stats circle =
       make_stats<Q>("svpwm (circle limit)", inputs + " |v| <= sqrt(2)",
                     Q::fraction_bits == 15 ? bound::overmodulation_q15 : bound::overmodulation_q31);
@@ -476,6 +480,23 @@ void modulation_rows(const sweep_options& options, std::vector<error_stats>& row
         Q::saturate(static_cast<int64_t>(static_cast<double>(v.alpha.raw()) * 0.5 / 1.4143)),
         Q::saturate(static_cast<int64_t>(static_cast<double>(v.beta.raw()) * 0.5 / 1.4143))};
     add_outputs(sine, sine_pwm(h).duty, ref::sine_pwm(ref::to_double(h)).duty, [&] { return describe(h); });
+    // six-step switches where a phase voltage crosses zero; a double can put a point on the wrong
+    // side of it, so the sweep keeps clear of the switching instants
+    const phases<double> p = ref::inverse_clarke(x);
+    if (std::fabs(p.a) > 1e-9 && std::fabs(p.b) > 1e-9 && std::fabs(p.c) > 1e-9) {
+      add_outputs(square, six_step(v).duty, ref::six_step(x), dv);
+    }
+    const uint32_t period = 1 + static_cast<uint32_t>(rng() % 65535);
+    const uint32_t pulse = static_cast<uint32_t>(rng() % (period / 4 + 1));
+    const phases<Q> duty{Q::saturate(std::llabs(v.alpha.raw())), Q::saturate(std::llabs(v.beta.raw())),
+                         v.alpha};
+    const compare_values counts = duty_to_compare(duty, period, pulse);
+    for (auto [got, d] : {std::pair{counts.compare.a, duty.a}, std::pair{counts.compare.b, duty.b},
+                          std::pair{counts.compare.c, duty.c}}) {
+      compare.add(static_cast<double>(got) - ref::duty_to_compare(to_double(d), period, pulse), [&, d = d] {
+        return "duty=" + hex(d) + " period=" + std::to_string(period) + " min_pulse=" + std::to_string(pulse);
+      });
+    }
     if (length > inscribed) {
       add_outputs(circle, svpwm(v, overmodulation::circle).duty, ref::svpwm_min_max(x, true).duty, dv);
       add_outputs(hexagon, svpwm(v, overmodulation::hexagon).duty, ref::svpwm_min_max(x, false).duty, dv);
@@ -495,7 +516,7 @@ void modulation_rows(const sweep_options& options, std::vector<error_stats>& row
     bus.add(lsb_error(normalizer.normalize(v.alpha), x.alpha / to_double(bus_voltage)),
             [&] { return "v=" + hex(v.alpha) + " bus=" + hex(bus_voltage); });
   }
-  for (error_stats* s : {&linear, &sine, &circle, &hexagon, &magnitude, &d_priority, &bus})
+  for (error_stats* s : {&linear, &sine, &square, &compare, &circle, &hexagon, &magnitude, &d_priority, &bus})
     rows.push_back(*s);
 }
 
@@ -609,8 +630,60 @@ std::vector<error_stats> sweep_modulation(const sweep_options& options) {
   return rows;
 }
 
+// A rotor turning at a constant speed, 20 to 400 Hz electrical against a 1 MHz timer, with ideal
+// 120-degree sensors (edges every 60 degrees from 0, the uniform calibration). Every edge is fed
+// with its capture time (the first tick at or after it); after two turns the angle is asked at
+// random times up to the next edge and compared with the exact rotor angle then. The error is the
+// rotor's motion within one capture tick plus the speed estimate's error (hall_tracker.hpp), below
+// 0.5 degrees at f_t >= 1000 f_e.
+error_stats hall_tracker_row(const sweep_options& options) {
+  error_stats s;
+  s.function = "hall_tracker (constant speed)";
+  s.format = "t32";
+  s.inputs = std::to_string(options.random_inputs / 100) + " runs, 20-400 Hz at 1 MHz, 10 polls each";
+  s.bound = bound::hall_tracker_constant_speed;
+  s.fraction_bits = 32;
+  s.kind = quantity::rotor_angle;
+  std::mt19937_64 rng(options.seed + 600);
+  for (uint64_t run = 0; run < options.random_inputs / 100; ++run) {
+    const double frequency = (20.0 + static_cast<double>(rng() % 38001) / 100.0) / 1e6;  // turns per tick
+    const double start_angle = static_cast<double>(rng() >> 11) / 9007199254740992.0;    // [0, 1) turn
+    const auto start_time = static_cast<uint32_t>(rng());
+    hall_tracker<32> tracker;
+    const auto sector_at = [](double turns) {
+      return static_cast<int>(std::floor(6 * (turns - std::floor(turns)))) % 6;
+    };
+    const auto angle_at = [&](double ticks) { return start_angle + frequency * ticks; };
+    tracker.update(hall_code(static_cast<uint8_t>(sector_at(start_angle))), start_time);
+    const double first_edge = std::ceil(6 * start_angle) / 6;
+    double edge_ticks = 0;
+    for (int k = 0; k <= 12; ++k) {
+      edge_ticks = (first_edge + k / 6.0 - start_angle) / frequency;
+      const double capture = std::ceil(edge_ticks);
+      if (k == 12) break;
+      const int sector = sector_at(angle_at(capture) + 1e-12);
+      tracker.update(hall_code(static_cast<uint8_t>(sector)), start_time + static_cast<uint32_t>(capture));
+    }
+    // polls between the 12th edge (already fed) and the 13th
+    const double last_edge = (first_edge + 11 / 6.0 - start_angle) / frequency;
+    for (int poll = 0; poll < 10; ++poll) {
+      const double now =
+          std::ceil(last_edge) + static_cast<double>(rng() % 1000) / 1000.0 * (edge_ticks - last_edge - 1);
+      const auto now_ticks = static_cast<uint32_t>(now);
+      const turn32 got = tracker.estimate(start_time + now_ticks).angle;
+      const double exact = angle_at(static_cast<double>(now_ticks));
+      const double error = std::remainder(got.raw() / 4294967296.0 - exact, 1.0) * 4294967296.0;
+      s.add(error, [&] {
+        return "f_e " + std::to_string(frequency * 1e6) + " Hz, start " + std::to_string(start_angle) +
+               " turn";
+      });
+    }
+  }
+  return s;
+}
+
 std::vector<error_stats> sweep_rotor_angle(const sweep_options& options) {
-  return {interpolator_row<16>(options), interpolator_row<32>(options)};
+  return {interpolator_row<16>(options), interpolator_row<32>(options), hall_tracker_row(options)};
 }
 
 std::vector<error_stats> sweep_round_trips(const sweep_options& options) {

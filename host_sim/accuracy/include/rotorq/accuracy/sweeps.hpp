@@ -139,6 +139,10 @@ inline constexpr double limiter_q31 = 8.5;
 // angle_interpolator against its twin, in turn32 steps: the speed's relative error (2^-28) times
 // the extrapolated distance, plus the truncation of the steps (angle_interpolator.hpp)
 inline constexpr double interpolator = 4.0;
+// hall_tracker at constant speed against the exact rotor angle, in turn32 steps: 0.5 degrees
+inline constexpr double hall_tracker_constant_speed = 0.5 / 360.0 * 4294967296.0;
+// exact integer or switching functions (duty_to_compare, six_step): no error at all
+inline constexpr double exact = 0.0;
 // inverse(forward(x)) against x: the forward rounding errors (<= 0.5 each) pass through the inverse
 // matrix, plus the inverse's own rounding; for Park also the deviation of the library's sine/cosine
 // pair from unit length, |v| * 2E.
