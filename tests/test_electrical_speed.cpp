@@ -84,7 +84,10 @@ TEST(ElectricalSpeed, RpmMatchesTheTwin) {
   struct drive_case {
     uint32_t pole_pairs, timer_hz;
   };
-  const drive_case cases[] = {{1, 1000000}, {4, 72000000}, {7, 170000000}, {2, 32768}, {21, 4000000000u}};
+  // the last two keep the configuration quotient small (many pole pairs, a slow timer), where a
+  // plain integer division would lose the bound's precision
+  const drive_case cases[] = {{1, 1000000},      {4, 72000000},  {7, 170000000},         {2, 32768},
+                              {21, 4000000000u}, {65535, 32768}, {0x7fffffffu, 2097153u}};
   std::mt19937_64 rng(3);
   for (const drive_case& c : cases) {
     const rotorq::rpm_scale scale(c.pole_pairs, c.timer_hz);
@@ -101,6 +104,14 @@ TEST(ElectricalSpeed, RpmMatchesTheTwin) {
       ASSERT_NEAR(got, want, std::fabs(want) * std::ldexp(1.0, -28) + 0.5 + 1e-6)
           << "pole pairs " << c.pole_pairs << " timer " << c.timer_hz << " raw " << raw;
     }
+  }
+  // Found by fuzz_rotor_angle: the fastest speed with 2^31 - 1 pole pairs at 2097153 Hz is
+  // 7.500007 rpm x 256; a configuration quotient truncated to 20 bits gave 7, not 8.
+  {
+    const electrical_speed fastest = electrical_speed::from_raw(0x7fffffffffff);
+    const double want = 256 * rotorq::ref::rpm(std::ldexp(0x7fffffffffff * 1.0, -48), 0x7fffffffu, 2097153u);
+    EXPECT_NEAR(rotorq::rpm_scale(0x7fffffffu, 2097153u).rpm_q8(fastest), want,
+                0.5 + want * std::ldexp(1.0, -28));
   }
   // A check value (derived): 1/6 turn per 1000 ticks at 1 MHz is 166.67 Hz electrical, 10000 rpm
   // electrical, 2500 rpm with 4 pole pairs.

@@ -88,13 +88,17 @@ class rpm_scale {
   // rpm = turns per tick * timer_hz * 60 / pole_pairs; pole_pairs 0 counts as 1, timer_hz 0 gives 0.
   constexpr rpm_scale(uint32_t pole_pairs, uint32_t timer_hz) noexcept {
     const uint64_t pairs = pole_pairs == 0 ? 1 : pole_pairs;
+    if (timer_hz == 0) return;
     const uint64_t per_turn_per_tick = uint64_t{timer_hz} * 60;  // < 2^38
-    // The one division, at configuration: K = 60 timer_hz 2^24 / pole_pairs < 2^62.
-    const uint64_t k = (per_turn_per_tick << 24) / pairs;
-    if (k == 0) return;
+    // The one division, at configuration: K = 60 timer_hz 2^24 / pole_pairs, with the numerator first
+    // shifted up to 64 bits so that the quotient keeps at least 33 significant bits whatever the
+    // pole pairs (the truncation stays below 2^-32 of K).
+    const uint64_t numerator = per_turn_per_tick << 24;  // < 2^62
+    const int extra = detail::leading_zeros(numerator);
+    const uint64_t k = (numerator << extra) / pairs;  // K 2^extra, >= 2^32
     const detail::mantissa32 n = detail::normalize32(k);
     mantissa_ = n.mantissa;
-    exponent_ = n.exponent;
+    exponent_ = n.exponent - extra;
   }
 
   // Mechanical rpm * 256, rounded to nearest, saturated to the int32 range.
