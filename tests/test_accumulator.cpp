@@ -63,8 +63,10 @@ std::string wide_text(wide v) {
   return text.str();
 }
 
+using rotorq::test::edge_values;
 using rotorq::test::from_wide;
 using rotorq::test::max_reported;
+using rotorq::test::random_value;
 using rotorq::test::raw_hex;
 using rotorq::test::raw_hi;
 using rotorq::test::raw_lo;
@@ -151,16 +153,6 @@ term<Q> opposite(const term<Q>& t) {
   return t;
 }
 
-template <typename Q>
-Q random_value(std::mt19937_64& rng) {
-  const uint64_t bits = rng();
-  if constexpr (Q::fraction_bits == 15) {
-    return from_wide<Q>(static_cast<int64_t>(bits >> 48) - 32768);
-  } else {
-    return from_wide<Q>(static_cast<int64_t>(bits >> 32) - 2147483648);
-  }
-}
-
 // A value whose magnitude is spread over all scales: a random raw value shifted right by 0 .. F.
 template <typename Q>
 Q random_scaled(std::mt19937_64& rng) {
@@ -174,23 +166,6 @@ term<Q> random_term(std::mt19937_64& rng) {
   const kind what = pick < 3 ? kind::mac : pick < 6 ? kind::msc : kind::add;
   if (rng() % 4 == 0) return {what, random_value<Q>(rng), random_value<Q>(rng)};
   return {what, random_scaled<Q>(rng), random_scaled<Q>(rng)};
-}
-
-// Edge values of a format: min, min + 1, -1, 0, 1, max - 1, max, and +-2^k, +-2^k +- 1.
-template <typename Q>
-std::vector<Q> edge_values() {
-  // cppcheck reads the variable templates raw_lo<Q>, raw_hi<Q> as comparisons here
-  // cppcheck-suppress compareBoolExpressionWithInt
-  std::vector<int64_t> raws = {raw_lo<Q>, raw_lo<Q> + 1, -1, 0, 1, raw_hi<Q> - 1, raw_hi<Q>};
-  for (int k = 1; k < Q::fraction_bits; ++k) {
-    const int64_t p = int64_t{1} << k;
-    for (const int64_t v : {p - 1, p, p + 1, -p - 1, -p, -p + 1}) raws.push_back(v);
-  }
-  std::sort(raws.begin(), raws.end());
-  raws.erase(std::unique(raws.begin(), raws.end()), raws.end());
-  std::vector<Q> values;
-  for (const int64_t raw : raws) values.push_back(from_wide<Q>(raw));
-  return values;
 }
 
 // Feeds terms into an accumulator and checks its result after every one against the reference sum.

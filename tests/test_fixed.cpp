@@ -41,8 +41,10 @@ constexpr uint64_t seed_addends = 0x5eed0006;
 
 constexpr int random_q31_pairs = 1'000'000;
 
+using rotorq::test::edge_values;
 using rotorq::test::from_wide;
 using rotorq::test::max_reported;
+using rotorq::test::random_value;
 using rotorq::test::raw_hex;
 using rotorq::test::raw_hi;
 using rotorq::test::raw_lo;
@@ -64,31 +66,6 @@ int64_t round_ties_up(int64_t n, int f) {
   const int64_t quotient = floor_div(n, step);
   const int64_t remainder = n - quotient * step;
   return 2 * remainder >= step ? quotient + 1 : quotient;
-}
-
-// Edge values of a format: min, min + 1, -1, 0, 1, max - 1, max, and +-2^k, +-2^k +- 1.
-template <typename Q>
-std::vector<Q> edge_values() {
-  std::vector<int64_t> raws = {raw_lo<Q>, raw_lo<Q> + 1, -1, 0, 1, raw_hi<Q> - 1, raw_hi<Q>};
-  for (int k = 1; k < Q::fraction_bits; ++k) {
-    const int64_t p = int64_t{1} << k;
-    for (const int64_t v : {p - 1, p, p + 1, -p - 1, -p, -p + 1}) raws.push_back(v);
-  }
-  std::sort(raws.begin(), raws.end());
-  raws.erase(std::unique(raws.begin(), raws.end()), raws.end());
-  std::vector<Q> values;
-  for (const int64_t raw : raws) values.push_back(from_wide<Q>(raw));
-  return values;
-}
-
-template <typename Q>
-Q random_value(std::mt19937_64& rng) {
-  const uint64_t bits = rng();
-  if constexpr (Q::fraction_bits == 15) {
-    return from_wide<Q>(static_cast<int64_t>(bits >> 48) - 32768);
-  } else {
-    return from_wide<Q>(static_cast<int64_t>(bits >> 32) - 2147483648);
-  }
 }
 
 // The second operand of the q15 sweeps: every edge value and random ones, 320 distinct values.

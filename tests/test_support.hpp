@@ -6,8 +6,10 @@
 #include <cstdint>
 #include <iomanip>
 #include <limits>
+#include <random>
 #include <sstream>
 #include <string>
+#include <vector>
 
 #include "rotorq/fixed.hpp"
 #include "rotorq/turn.hpp"
@@ -47,6 +49,36 @@ int64_t saturated(int64_t exact) {
 template <typename Q>
 Q from_wide(int64_t raw) {
   return Q::from_raw(static_cast<typename Q::raw_type>(raw));
+}
+
+// A raw value uniform over the whole range, cut from the generator's bits: std::mt19937_64's output
+// is fixed by the C++ standard but the std distributions are not, so the same seed gives the same
+// inputs with every standard library.
+template <typename Q>
+Q random_value(std::mt19937_64& rng) {
+  const uint64_t bits = rng();
+  if constexpr (Q::fraction_bits == 15) {
+    return from_wide<Q>(static_cast<int64_t>(bits >> 48) - 32768);
+  } else {
+    return from_wide<Q>(static_cast<int64_t>(bits >> 32) - 2147483648);
+  }
+}
+
+// Edge values of a format: min, min + 1, -1, 0, 1, max - 1, max, and +-2^k, +-2^k +- 1.
+template <typename Q>
+std::vector<Q> edge_values() {
+  // cppcheck reads the variable templates raw_lo<Q>, raw_hi<Q> as comparisons here
+  // cppcheck-suppress compareBoolExpressionWithInt
+  std::vector<int64_t> raws = {raw_lo<Q>, raw_lo<Q> + 1, -1, 0, 1, raw_hi<Q> - 1, raw_hi<Q>};
+  for (int k = 1; k < Q::fraction_bits; ++k) {
+    const int64_t p = int64_t{1} << k;
+    for (const int64_t v : {p - 1, p, p + 1, -p - 1, -p, -p + 1}) raws.push_back(v);
+  }
+  std::sort(raws.begin(), raws.end());
+  raws.erase(std::unique(raws.begin(), raws.end()), raws.end());
+  std::vector<Q> values;
+  for (const int64_t raw : raws) values.push_back(from_wide<Q>(raw));
+  return values;
 }
 
 }  // namespace rotorq::test

@@ -604,9 +604,9 @@ std::vector<error_stats> sweep_arithmetic(const sweep_options& options) {
   return rows;
 }
 
-std::vector<error_stats> sweep_sin_cos(const sweep_options& options) {
+std::vector<error_stats> sweep_sin_cos(const sweep_options& options, plot_data* plots) {
   return {sin_cos_q15(),
-          options.exhaustive_sin_cos_q31 ? sin_cos_q31_exhaustive(options, nullptr) : sin_cos_q31(options)};
+          options.exhaustive_sin_cos_q31 ? sin_cos_q31_exhaustive(options, plots) : sin_cos_q31(options)};
 }
 
 std::vector<error_stats> sweep_clarke(const sweep_options& options) {
@@ -695,15 +695,14 @@ std::vector<error_stats> sweep_round_trips(const sweep_options& options) {
 
 std::vector<error_stats> sweep_report(const sweep_options& options, plot_data* plots) {
   std::vector<error_stats> rows;
-  for (auto* sweep : {&sweep_arithmetic, &sweep_sin_cos, &sweep_clarke, &sweep_park, &sweep_modulation,
-                      &sweep_rotor_angle, &sweep_round_trips}) {
-    if (sweep == &sweep_sin_cos) {
-      rows.push_back(sin_cos_q15());
-      rows.push_back(options.exhaustive_sin_cos_q31 ? sin_cos_q31_exhaustive(options, plots)
-                                                    : sin_cos_q31(options));
-      continue;
-    }
-    for (error_stats& s : sweep(options)) rows.push_back(std::move(s));
+  const auto append = [&rows](std::vector<error_stats> more) {
+    for (error_stats& s : more) rows.push_back(std::move(s));
+  };
+  append(sweep_arithmetic(options));
+  append(sweep_sin_cos(options, plots));
+  for (auto* sweep :
+       {&sweep_clarke, &sweep_park, &sweep_modulation, &sweep_rotor_angle, &sweep_round_trips}) {
+    append(sweep(options));
   }
   if (plots) {
     sin_cos_q15_curve(*plots);

@@ -39,7 +39,7 @@ class bus_normalizer {
     const auto raw = static_cast<uint32_t>(bus.raw());
     const int n = detail::leading_zeros(raw);
     inverse_mantissa_ = detail::reciprocal_q30(raw << n);
-    shift_ = 62 - n - Q::fraction_bits;  // 16..30 for q15, 0..30 for q31
+    shift_ = 62 - n - Q::fraction_bits;  // bus_raw >= 2, so n <= 30: 17..30 for q15, 1..30 for q31
     return true;
   }
 
@@ -49,7 +49,7 @@ class bus_normalizer {
   constexpr Q normalize(Q v) const noexcept {
     if (!valid_) return Q::zero();
     const int64_t product = int64_t{v.raw()} * int64_t{inverse_mantissa_};  // |product| <= 2^62
-    return Q::saturate(shift_ > 0 ? detail::round_shift(product, shift_) : product);
+    return Q::saturate(detail::round_shift(product, shift_));
   }
   constexpr stationary<Q> normalize(stationary<Q> v) const noexcept {
     return {normalize(v.alpha), normalize(v.beta)};

@@ -105,7 +105,8 @@ std::vector<error_stats> sweep_report(const sweep_options& options, plot_data* p
 
 // Each returns one row per format (q15 first, then q31).
 std::vector<error_stats> sweep_arithmetic(const sweep_options& options);
-std::vector<error_stats> sweep_sin_cos(const sweep_options& options);
+// With plots non-null, an exhaustive q31 sweep also fills plots->q31_*.
+std::vector<error_stats> sweep_sin_cos(const sweep_options& options, plot_data* plots = nullptr);
 std::vector<error_stats> sweep_clarke(const sweep_options& options);
 std::vector<error_stats> sweep_park(const sweep_options& options);
 std::vector<error_stats> sweep_modulation(const sweep_options& options);
