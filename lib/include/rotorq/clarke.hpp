@@ -20,6 +20,7 @@
 
 #include "rotorq/constants.hpp"
 #include "rotorq/detail/integer.hpp"
+#include "rotorq/detail/ops.hpp"
 #include "rotorq/fixed.hpp"
 #include "rotorq/frames.hpp"
 
@@ -29,6 +30,15 @@ namespace detail {
 
 // Wide values: a raw value times 2^31, held in int64 (Q46 for q15, Q62 for q31), so a product with a
 // constant keeps all its bits until the one rounding at the end.
+// floor(x * k / 2^31) for a Q62 constant 0 <= k < 2^62 (a value below 1), exact to the last bit of
+// the Q62 result: with k = high 2^31 + low (high, low < 2^31) it is x high + floor(x low / 2^31),
+// two exact 32 x 32 -> 64 products. |result| <= 2^62.
+constexpr int64_t mul_q31_by_q62(int32_t x, uint64_t k) noexcept {
+  const auto high = static_cast<int32_t>(k >> 31);
+  const auto low = static_cast<int32_t>(k & 0x7fffffffu);
+  return ops::mul_wide(x, high) + (ops::mul_wide(x, low) >> 31);
+}
+
 template <int F>
 struct wide;
 template <>
@@ -36,7 +46,7 @@ struct wide<15> {
   // n (an integer combination of raw inputs, |n| < 2^18) times the constant rounded to Q31: exact,
   // below 2^49.
   static constexpr int64_t times(int64_t n, uint64_t k62) noexcept {
-    return n * int64_t{constant<q31>(k62).raw()};
+    return ops::mul_wide(static_cast<int32_t>(n), constant<q31>(k62).raw());
   }
 };
 template <>

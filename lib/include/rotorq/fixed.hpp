@@ -15,6 +15,7 @@
 #pragma once
 
 #include "rotorq/detail/integer.hpp"
+#include "rotorq/detail/ops.hpp"
 
 namespace rotorq {
 
@@ -43,19 +44,36 @@ class fixed {
 
   // Saturate a wide integer into the raw range.
   static constexpr fixed saturate(int64_t wide) noexcept {
-    return fixed(static_cast<raw_type>(detail::clamp(wide, raw_min, raw_max)));
+    if constexpr (FractionBits == 15) {
+      return fixed(detail::ops::sat16_wide(wide));
+    } else {
+      return fixed(detail::ops::sat32(wide));
+    }
   }
 
+  // The arithmetic goes through the port's primitives (rotorq/detail/ops.hpp), which return the same
+  // values on every core.
   friend constexpr fixed operator+(fixed a, fixed b) noexcept {
-    return saturate(int64_t{a.raw_} + int64_t{b.raw_});
+    if constexpr (FractionBits == 15) {
+      return fixed(detail::ops::add16(a.raw_, b.raw_));
+    } else {
+      return fixed(detail::ops::add32(a.raw_, b.raw_));
+    }
   }
   friend constexpr fixed operator-(fixed a, fixed b) noexcept {
-    return saturate(int64_t{a.raw_} - int64_t{b.raw_});
+    if constexpr (FractionBits == 15) {
+      return fixed(detail::ops::sub16(a.raw_, b.raw_));
+    } else {
+      return fixed(detail::ops::sub32(a.raw_, b.raw_));
+    }
   }
-  friend constexpr fixed operator-(fixed a) noexcept { return saturate(-int64_t{a.raw_}); }
+  friend constexpr fixed operator-(fixed a) noexcept { return zero() - a; }
   friend constexpr fixed operator*(fixed a, fixed b) noexcept {
-    const int64_t product = int64_t{a.raw_} * int64_t{b.raw_};  // |product| <= 2^(2F)
-    return saturate(detail::round_shift(product, FractionBits));
+    if constexpr (FractionBits == 15) {
+      return fixed(detail::ops::mul_q15(a.raw_, b.raw_));
+    } else {
+      return fixed(detail::ops::mul_q31(a.raw_, b.raw_));
+    }
   }
 
   constexpr fixed& operator+=(fixed other) noexcept { return *this = *this + other; }
@@ -87,7 +105,7 @@ constexpr fixed<F> abs(fixed<F> a) noexcept {
 template <int F>
 constexpr fixed<F> mul_add(fixed<F> a, fixed<F> b, fixed<F> c) noexcept {
   // |a*b| <= 2^(2F) and |c * 2^F| <= 2^(2F), so the sum stays below 2^63 for F = 31.
-  const int64_t exact = int64_t{a.raw()} * int64_t{b.raw()} + int64_t{c.raw()} * detail::pow2(F);
+  const int64_t exact = detail::ops::mul_wide(a.raw(), b.raw()) + int64_t{c.raw()} * detail::pow2(F);
   return fixed<F>::saturate(detail::round_shift(exact, F));
 }
 
@@ -95,6 +113,7 @@ constexpr fixed<F> mul_add(fixed<F> a, fixed<F> b, fixed<F> c) noexcept {
 constexpr q31 to_q31(q15 x) noexcept { return q31::from_raw(static_cast<int32_t>(x.raw() * 65536)); }
 
 // q31 -> q15 rounds to nearest (ties toward +infinity) and saturates.
-constexpr q15 to_q15(q31 x) noexcept { return q15::saturate(detail::round_shift(int64_t{x.raw()}, 16)); }
+// floor((floor(x / 2^15) + 1) / 2) = floor((x + 2^15) / 2^16) without the overflow of x + 2^15.
+constexpr q15 to_q15(q31 x) noexcept { return q15::from_raw(detail::ops::sat16(((x.raw() >> 15) + 1) >> 1)); }
 
 }  // namespace rotorq

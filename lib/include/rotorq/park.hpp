@@ -17,6 +17,7 @@
 #pragma once
 
 #include "rotorq/detail/integer.hpp"
+#include "rotorq/detail/ops.hpp"
 #include "rotorq/fixed.hpp"
 #include "rotorq/frames.hpp"
 
@@ -24,35 +25,36 @@ namespace rotorq {
 
 namespace detail {
 
+// (x y + u w) / 2^F and (x y - u w) / 2^F, each exact and rounded once, then saturated.
 template <int F>
-constexpr typename fixed<F>::product_type product(fixed<F> x, fixed<F> y) noexcept {
-  using wide = typename fixed<F>::product_type;
-  return static_cast<wide>(wide{x.raw()} * wide{y.raw()});
+constexpr fixed<F> sum_of_products(fixed<F> x, fixed<F> y, fixed<F> u, fixed<F> w) noexcept {
+  if constexpr (F == 15) {
+    return q15::from_raw(ops::sum_of_products_q15(x.raw(), y.raw(), u.raw(), w.raw()));
+  } else {
+    return q31::from_raw(ops::sum_of_products_q31(x.raw(), y.raw(), u.raw(), w.raw()));
+  }
 }
-
-// (p + r) / 2^F for two exact products, rounded once (ties toward +infinity) and saturated. Each
-// product and its negation lie in [-2^2F, 2^2F], so p + r can reach 2^(2F+1) and overflow the product
-// type: halve it exactly first (floor) and round floor((p + r) / 2) from 2^(F-1), which gives the
-// same result as rounding p + r from 2^F.
 template <int F>
-constexpr fixed<F> round_sum(typename fixed<F>::product_type p, typename fixed<F>::product_type r) noexcept {
-  return fixed<F>::saturate(round_shift(half_sum(p, r), F - 1));
+constexpr fixed<F> difference_of_products(fixed<F> x, fixed<F> y, fixed<F> u, fixed<F> w) noexcept {
+  if constexpr (F == 15) {
+    return q15::from_raw(ops::difference_of_products_q15(x.raw(), y.raw(), u.raw(), w.raw()));
+  } else {
+    return q31::from_raw(ops::difference_of_products_q31(x.raw(), y.raw(), u.raw(), w.raw()));
+  }
 }
 
 }  // namespace detail
 
 template <int F>
 constexpr rotating<fixed<F>> park(stationary<fixed<F>> v, sin_cos_pair<fixed<F>> angle) noexcept {
-  using detail::product;
-  return {detail::round_sum<F>(product(v.alpha, angle.cos), product(v.beta, angle.sin)),
-          detail::round_sum<F>(product(v.beta, angle.cos), -product(v.alpha, angle.sin))};
+  return {detail::sum_of_products(v.alpha, angle.cos, v.beta, angle.sin),
+          detail::difference_of_products(v.beta, angle.cos, v.alpha, angle.sin)};
 }
 
 template <int F>
 constexpr stationary<fixed<F>> inverse_park(rotating<fixed<F>> v, sin_cos_pair<fixed<F>> angle) noexcept {
-  using detail::product;
-  return {detail::round_sum<F>(product(v.d, angle.cos), -product(v.q, angle.sin)),
-          detail::round_sum<F>(product(v.d, angle.sin), product(v.q, angle.cos))};
+  return {detail::difference_of_products(v.d, angle.cos, v.q, angle.sin),
+          detail::sum_of_products(v.d, angle.sin, v.q, angle.cos)};
 }
 
 }  // namespace rotorq

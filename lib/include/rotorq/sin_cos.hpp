@@ -22,6 +22,7 @@
 #pragma once
 
 #include "rotorq/detail/integer.hpp"
+#include "rotorq/detail/ops.hpp"
 #include "rotorq/detail/sine_table.hpp"
 #include "rotorq/fixed.hpp"
 #include "rotorq/frames.hpp"
@@ -72,7 +73,8 @@ constexpr sin_cos_pair<q15> sin_cos(turn16 angle) noexcept {
 
   const sin_cos_pair<int32_t> folded = detail::fold_quadrant(raw >> 14, sin30, cos30);
   // |folded| <= 2^30 + 2^10, so the rounding addition cannot overflow.
-  return {q15::saturate((folded.sin + (1 << 14)) >> 15), q15::saturate((folded.cos + (1 << 14)) >> 15)};
+  return {q15::from_raw(detail::ops::sat16((folded.sin + (1 << 14)) >> 15)),
+          q15::from_raw(detail::ops::sat16((folded.cos + (1 << 14)) >> 15))};
 }
 
 constexpr sin_cos_pair<q31> sin_cos(turn32 angle) noexcept {
@@ -81,22 +83,25 @@ constexpr sin_cos_pair<q31> sin_cos(turn32 angle) noexcept {
   // steps from the segment centre, [-2^21, 2^21); one step is 2 pi / 2^32 rad
   const int32_t steps = static_cast<int32_t>(raw & 0x3fffffu) - (1 << 21);
 
-  const int64_t sin31 = detail::sine_table.value[segment];
-  const int64_t cos31 = detail::sine_table.value[255 - segment];
+  const int32_t sin31 = detail::sine_table.value[segment];
+  const int32_t cos31 = detail::sine_table.value[255 - segment];
+  using detail::ops::mul_wide;  // every product below is of two int32 values
 
   // delta * 2^39, |delta39| < 1.7e9; 843314857 = round(2 pi 2^27)
-  const int64_t delta39 = (int64_t{steps} * 843314857 + (int64_t{1} << 19)) >> 20;
+  const auto delta39 = static_cast<int32_t>((mul_wide(steps, 843314857) + (int64_t{1} << 19)) >> 20);
   // (1 - cos(delta)) * 2^48 ~ delta^2 / 2 * 2^48 <= 1.33e9
-  const int64_t half_square48 = (delta39 * delta39) >> 31;
-  // delta^3 / 6 * 2^39: (delta * delta^2/2) * 2^55, times round(2^32 / 3), shifted down
-  const int64_t cube_sixth39 = (((delta39 * half_square48) >> 32) * 1431655765) >> 48;
-  const int64_t sin_delta39 = delta39 - cube_sixth39;
+  const auto half_square48 = static_cast<int32_t>(mul_wide(delta39, delta39) >> 31);
+  // delta^3 / 6 * 2^39: (delta * delta^2/2) * 2^55 (below 5.3e8 after the shift), times
+  // round(2^32 / 3), shifted down
+  const auto cube55 = static_cast<int32_t>(mul_wide(delta39, half_square48) >> 32);
+  const auto cube_sixth39 = static_cast<int32_t>(mul_wide(cube55, 1431655765) >> 48);
+  const int32_t sin_delta39 = delta39 - cube_sixth39;
 
   // First-quadrant results in Q62; every product is below 2^62.
-  const int64_t sin62 =
-      sin31 * detail::pow2(31) - ((sin31 * half_square48) >> 17) + ((cos31 * sin_delta39) >> 8);
-  const int64_t cos62 =
-      cos31 * detail::pow2(31) - ((cos31 * half_square48) >> 17) - ((sin31 * sin_delta39) >> 8);
+  const int64_t sin62 = int64_t{sin31} * detail::pow2(31) - (mul_wide(sin31, half_square48) >> 17) +
+                        (mul_wide(cos31, sin_delta39) >> 8);
+  const int64_t cos62 = int64_t{cos31} * detail::pow2(31) - (mul_wide(cos31, half_square48) >> 17) -
+                        (mul_wide(sin31, sin_delta39) >> 8);
 
   const sin_cos_pair<int64_t> folded = detail::fold_quadrant(raw >> 30, sin62, cos62);
   // |folded| <= 2^62 + 2^32, so the rounding addition cannot overflow.

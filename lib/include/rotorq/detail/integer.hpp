@@ -61,16 +61,6 @@ constexpr int16_t to_signed(uint16_t bits) noexcept {
                                               : static_cast<int32_t>(bits) - 65536);
 }
 
-// floor(x * k / 2^31) for a Q62 constant 0 <= k < 2^62 (a value below 1), exact to the last bit of
-// the Q62 result: the constant is split into a high and a low 32-bit word, so the product keeps all
-// 62 fractional bits of the constant. |result| <= 2^62.
-constexpr int64_t mul_q31_by_q62(int32_t x, uint64_t k) noexcept {
-  const int64_t high = static_cast<int64_t>(k >> 32);         // < 2^30
-  const int64_t low = static_cast<int64_t>(k & 0xffffffffu);  // < 2^32
-  const int64_t x64 = x;
-  return 2 * (x64 * high) + ((x64 * low) >> 31);
-}
-
 // floor((p + q) / 2) for any two values, without overflow.
 constexpr int64_t half_sum(int64_t p, int64_t q) noexcept { return (p >> 1) + (q >> 1) + (p & q & 1); }
 constexpr int32_t half_sum(int32_t p, int32_t q) noexcept { return (p >> 1) + (q >> 1) + (p & q & 1); }

@@ -1,0 +1,71 @@
+// The primitive operations every rotorq function is built from, and the choice of port.
+//
+// The generic definitions (ops_generic.hpp) are portable C++ and are what a build without a port
+// uses. A port is chosen by defining one macro (CMake's ROTORQ_PORT option does it and adds the
+// port's include directory, ports/<name>/include):
+//   ROTORQ_PORT_CORTEX_M_DSP    Cortex-M4/M7/M33: SSAT, QADD/QSUB, SMULL-based rounding multiplies
+//   ROTORQ_PORT_CORTEX_M_BASE   Cortex-M0+/M3: saturation on 32-bit halves; on Armv6-M the exact
+//                               32 x 32 -> 64 product from four 16 x 16 multiplies (no helper call)
+//   ROTORQ_PORT_RV32            RV32IM(C): saturation on 32-bit halves
+// A port changes speed, never results: each of its functions returns exactly the generic value for
+// every input (tests/test_ports.cpp checks this on the host, the target test vectors on each core).
+// During constant evaluation the generic definitions are used, so every function stays constexpr.
+#pragma once
+
+#include "rotorq/detail/integer.hpp"
+#include "rotorq/detail/ops_generic.hpp"
+
+#if defined(ROTORQ_PORT_CORTEX_M_DSP) + defined(ROTORQ_PORT_CORTEX_M_BASE) + defined(ROTORQ_PORT_RV32) > 1
+#error "rotorq: define at most one ROTORQ_PORT_* macro"
+#endif
+
+#if defined(ROTORQ_PORT_CORTEX_M_DSP)
+#include "rotorq/ports/cortex_m_dsp.hpp"
+#define ROTORQ_DETAIL_PORT ::rotorq::ports::cortex_m_dsp
+#elif defined(ROTORQ_PORT_CORTEX_M_BASE)
+#include "rotorq/ports/cortex_m_base.hpp"
+#define ROTORQ_DETAIL_PORT ::rotorq::ports::cortex_m_base
+#elif defined(ROTORQ_PORT_RV32)
+#include "rotorq/ports/rv32.hpp"
+#define ROTORQ_DETAIL_PORT ::rotorq::ports::rv32
+#endif
+
+// Use the port's definition at run time, the generic one in constant evaluation.
+#if defined(ROTORQ_DETAIL_PORT)
+#define ROTORQ_DETAIL_DISPATCH(name, ...)         \
+  if (!__builtin_is_constant_evaluated()) {       \
+    return ROTORQ_DETAIL_PORT::name(__VA_ARGS__); \
+  }                                               \
+  return generic::name(__VA_ARGS__)
+#else
+#define ROTORQ_DETAIL_DISPATCH(name, ...) return generic::name(__VA_ARGS__)
+#endif
+
+namespace rotorq::detail::ops {
+
+constexpr int16_t sat16(int32_t v) noexcept { ROTORQ_DETAIL_DISPATCH(sat16, v); }
+constexpr int16_t sat16_wide(int64_t v) noexcept { ROTORQ_DETAIL_DISPATCH(sat16_wide, v); }
+constexpr int32_t sat32(int64_t v) noexcept { ROTORQ_DETAIL_DISPATCH(sat32, v); }
+constexpr int16_t add16(int16_t a, int16_t b) noexcept { ROTORQ_DETAIL_DISPATCH(add16, a, b); }
+constexpr int16_t sub16(int16_t a, int16_t b) noexcept { ROTORQ_DETAIL_DISPATCH(sub16, a, b); }
+constexpr int32_t add32(int32_t a, int32_t b) noexcept { ROTORQ_DETAIL_DISPATCH(add32, a, b); }
+constexpr int32_t sub32(int32_t a, int32_t b) noexcept { ROTORQ_DETAIL_DISPATCH(sub32, a, b); }
+constexpr int64_t mul_wide(int32_t a, int32_t b) noexcept { ROTORQ_DETAIL_DISPATCH(mul_wide, a, b); }
+constexpr int16_t mul_q15(int16_t a, int16_t b) noexcept { ROTORQ_DETAIL_DISPATCH(mul_q15, a, b); }
+constexpr int32_t mul_q31(int32_t a, int32_t b) noexcept { ROTORQ_DETAIL_DISPATCH(mul_q31, a, b); }
+constexpr int16_t sum_of_products_q15(int16_t a, int16_t b, int16_t c, int16_t d) noexcept {
+  ROTORQ_DETAIL_DISPATCH(sum_of_products_q15, a, b, c, d);
+}
+constexpr int16_t difference_of_products_q15(int16_t a, int16_t b, int16_t c, int16_t d) noexcept {
+  ROTORQ_DETAIL_DISPATCH(difference_of_products_q15, a, b, c, d);
+}
+constexpr int32_t sum_of_products_q31(int32_t a, int32_t b, int32_t c, int32_t d) noexcept {
+  ROTORQ_DETAIL_DISPATCH(sum_of_products_q31, a, b, c, d);
+}
+constexpr int32_t difference_of_products_q31(int32_t a, int32_t b, int32_t c, int32_t d) noexcept {
+  ROTORQ_DETAIL_DISPATCH(difference_of_products_q31, a, b, c, d);
+}
+
+}  // namespace rotorq::detail::ops
+
+#undef ROTORQ_DETAIL_DISPATCH

@@ -1,0 +1,109 @@
+// Primitive operations for cores with 32-bit registers, in portable C++: the ports compose these
+// with their own instructions. Each returns exactly what its generic namesake (ops_generic.hpp)
+// returns, for every input; tests/test_ports.cpp checks that on the host.
+//
+// The idea throughout: a 64-bit value is a high word `hi` and a low word `lo`. It fits 32 bits when
+// hi is the sign extension of lo, and (hi:lo) >> 31 is 2 hi + (lo >> 31), so saturating it needs
+// one comparison of hi instead of a 64-bit compare.
+#pragma once
+
+#include "rotorq/detail/integer.hpp"
+#include "rotorq/detail/ops_generic.hpp"
+
+namespace rotorq::detail::narrow {
+
+using generic::int32_max;
+using generic::int32_min;
+
+struct halves {
+  int32_t hi;
+  uint32_t lo;
+};
+
+constexpr halves split(int64_t v) noexcept {
+  const auto bits = static_cast<uint64_t>(v);
+  return {to_signed(static_cast<uint32_t>(bits >> 32)), static_cast<uint32_t>(bits)};
+}
+constexpr halves split(uint64_t bits) noexcept {
+  return {to_signed(static_cast<uint32_t>(bits >> 32)), static_cast<uint32_t>(bits)};
+}
+
+constexpr int32_t sat32(int64_t v) noexcept {
+  const halves h = split(v);
+  const int32_t low = to_signed(h.lo);
+  if (h.hi == (low < 0 ? -1 : 0)) return low;
+  return h.hi < 0 ? int32_min : int32_max;
+}
+
+// SatFn saturates an int32 into int16 (SSAT on cores that have it).
+template <int16_t (*SatFn)(int32_t) noexcept>
+constexpr int16_t sat16_wide(int64_t v) noexcept {
+  const halves h = split(v);
+  const int32_t low = to_signed(h.lo);
+  if (h.hi == (low < 0 ? -1 : 0)) return SatFn(low);
+  return h.hi < 0 ? int16_t{-32768} : int16_t{32767};
+}
+
+// a + b and a - b saturated with 32-bit arithmetic: a sum overflows when both operands have one sign
+// and the result the other; a difference when the operands' signs differ and the result's sign is
+// the subtrahend's.
+constexpr int32_t add32(int32_t a, int32_t b) noexcept {
+  const int32_t sum = to_signed(static_cast<uint32_t>(a) + static_cast<uint32_t>(b));
+  if (((a ^ sum) & (b ^ sum)) < 0) return a < 0 ? int32_min : int32_max;
+  return sum;
+}
+constexpr int32_t sub32(int32_t a, int32_t b) noexcept {
+  const int32_t difference = to_signed(static_cast<uint32_t>(a) - static_cast<uint32_t>(b));
+  if (((a ^ b) & (a ^ difference)) < 0) return a < 0 ? int32_min : int32_max;
+  return difference;
+}
+
+// (hi:lo) >> 31 saturated to int32, for -2^31 <= hi <= 2^31 - 1: 2 hi + (lo >> 31) when
+// -2^30 <= hi < 2^30, else the sign's limit.
+constexpr int32_t shift31_saturated(halves h) noexcept {
+  if (h.hi >= (1 << 30)) return int32_max;
+  if (h.hi < -(1 << 30)) return int32_min;
+  return h.hi * 2 + static_cast<int32_t>(h.lo >> 31);
+}
+
+// The exact product from four 16 x 16 -> 32 multiplies, for cores whose multiplier returns only the
+// low 32 bits (Armv6-M's MULS). a = ah 2^16 + al with ah signed and 0 <= al < 2^16, likewise b:
+// |ah bh| <= 2^30, |ah bl|, |al bh| < 2^31, al bl < 2^32, so no partial product overflows.
+constexpr int64_t mul_wide_16x16(int32_t a, int32_t b) noexcept {
+  const int32_t ah = a >> 16;
+  const int32_t bh = b >> 16;
+  const uint32_t al = static_cast<uint32_t>(a) & 0xffffu;
+  const uint32_t bl = static_cast<uint32_t>(b) & 0xffffu;
+  const int32_t high = ah * bh;
+  const int64_t middle = int64_t{ah * static_cast<int32_t>(bl)} + int64_t{static_cast<int32_t>(al) * bh};
+  const uint32_t low = al * bl;
+  return int64_t{high} * pow2(32) + middle * pow2(16) + int64_t{low};
+}
+
+// MulFn is the exact 32 x 32 -> 64 product of the core.
+template <int64_t (*MulFn)(int32_t, int32_t) noexcept>
+constexpr int32_t mul_q31(int32_t a, int32_t b) noexcept {
+  // a b + 2^30 lies in [-2^62 + 2^31 + 2^30, 2^62 + 2^30]: no overflow.
+  return shift31_saturated(split(MulFn(a, b) + pow2(30)));
+}
+
+// a b + c d + 2^30 wraps around in 64 bits only for a = b = c = d = -2^31 (both products 2^62);
+// the wrapped value's high word is -2^31, which no other input gives (the true sum is at least
+// -2^63 + 2^32 + 2^30), so that high word means +infinity.
+template <int64_t (*MulFn)(int32_t, int32_t) noexcept>
+constexpr int32_t sum_of_products_q31(int32_t a, int32_t b, int32_t c, int32_t d) noexcept {
+  const uint64_t sum =
+      static_cast<uint64_t>(MulFn(a, b)) + static_cast<uint64_t>(MulFn(c, d)) + (uint64_t{1} << 30);
+  const halves h = split(sum);
+  return h.hi == int32_min ? int32_max : shift31_saturated(h);
+}
+
+// a b - c d + 2^30 lies in [-2^63 + 2^31 + 2^30, 2^63 - 2^31 + 2^30]: no overflow.
+template <int64_t (*MulFn)(int32_t, int32_t) noexcept>
+constexpr int32_t difference_of_products_q31(int32_t a, int32_t b, int32_t c, int32_t d) noexcept {
+  const uint64_t difference =
+      static_cast<uint64_t>(MulFn(a, b)) - static_cast<uint64_t>(MulFn(c, d)) + (uint64_t{1} << 30);
+  return shift31_saturated(split(difference));
+}
+
+}  // namespace rotorq::detail::narrow
