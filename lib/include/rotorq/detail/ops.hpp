@@ -21,51 +21,64 @@
 
 #if defined(ROTORQ_PORT_CORTEX_M_DSP)
 #include "rotorq/ports/cortex_m_dsp.hpp"
-#define ROTORQ_DETAIL_PORT ::rotorq::ports::cortex_m_dsp
+namespace rotorq::detail {
+namespace port = ::rotorq::ports::cortex_m_dsp;
+}
 #elif defined(ROTORQ_PORT_CORTEX_M_BASE)
 #include "rotorq/ports/cortex_m_base.hpp"
-#define ROTORQ_DETAIL_PORT ::rotorq::ports::cortex_m_base
+namespace rotorq::detail {
+namespace port = ::rotorq::ports::cortex_m_base;
+}
 #elif defined(ROTORQ_PORT_RV32)
 #include "rotorq/ports/rv32.hpp"
-#define ROTORQ_DETAIL_PORT ::rotorq::ports::rv32
-#endif
-
-// Use the port's definition at run time, the generic one in constant evaluation.
-#if defined(ROTORQ_DETAIL_PORT)
-#define ROTORQ_DETAIL_DISPATCH(name, ...)         \
-  if (!__builtin_is_constant_evaluated()) {       \
-    return ROTORQ_DETAIL_PORT::name(__VA_ARGS__); \
-  }                                               \
-  return generic::name(__VA_ARGS__)
+namespace rotorq::detail {
+namespace port = ::rotorq::ports::rv32;
+}
 #else
-#define ROTORQ_DETAIL_DISPATCH(name, ...) return generic::name(__VA_ARGS__)
+namespace rotorq::detail {
+namespace port = generic;
+}
 #endif
 
 namespace rotorq::detail::ops {
 
-constexpr int16_t sat16(int32_t v) noexcept { ROTORQ_DETAIL_DISPATCH(sat16, v); }
-constexpr int16_t sat16_wide(int64_t v) noexcept { ROTORQ_DETAIL_DISPATCH(sat16_wide, v); }
-constexpr int32_t sat32(int64_t v) noexcept { ROTORQ_DETAIL_DISPATCH(sat32, v); }
-constexpr int16_t add16(int16_t a, int16_t b) noexcept { ROTORQ_DETAIL_DISPATCH(add16, a, b); }
-constexpr int16_t sub16(int16_t a, int16_t b) noexcept { ROTORQ_DETAIL_DISPATCH(sub16, a, b); }
-constexpr int32_t add32(int32_t a, int32_t b) noexcept { ROTORQ_DETAIL_DISPATCH(add32, a, b); }
-constexpr int32_t sub32(int32_t a, int32_t b) noexcept { ROTORQ_DETAIL_DISPATCH(sub32, a, b); }
-constexpr int64_t mul_wide(int32_t a, int32_t b) noexcept { ROTORQ_DETAIL_DISPATCH(mul_wide, a, b); }
-constexpr int16_t mul_q15(int16_t a, int16_t b) noexcept { ROTORQ_DETAIL_DISPATCH(mul_q15, a, b); }
-constexpr int32_t mul_q31(int32_t a, int32_t b) noexcept { ROTORQ_DETAIL_DISPATCH(mul_q31, a, b); }
+// The port's definition at run time, the generic one in constant evaluation. Both are known at
+// compile time, so the call inlines as if written directly.
+template <auto Generic, auto Port, typename... Args>
+constexpr auto dispatch(Args... args) noexcept {
+  if (!__builtin_is_constant_evaluated()) return Port(args...);
+  return Generic(args...);
+}
+
+constexpr int16_t sat16(int32_t v) noexcept { return dispatch<generic::sat16, port::sat16>(v); }
+constexpr int16_t sat16_wide(int64_t v) noexcept {
+  return dispatch<generic::sat16_wide, port::sat16_wide>(v);
+}
+constexpr int32_t sat32(int64_t v) noexcept { return dispatch<generic::sat32, port::sat32>(v); }
+constexpr int16_t add16(int16_t a, int16_t b) noexcept { return dispatch<generic::add16, port::add16>(a, b); }
+constexpr int16_t sub16(int16_t a, int16_t b) noexcept { return dispatch<generic::sub16, port::sub16>(a, b); }
+constexpr int32_t add32(int32_t a, int32_t b) noexcept { return dispatch<generic::add32, port::add32>(a, b); }
+constexpr int32_t sub32(int32_t a, int32_t b) noexcept { return dispatch<generic::sub32, port::sub32>(a, b); }
+constexpr int64_t mul_wide(int32_t a, int32_t b) noexcept {
+  return dispatch<generic::mul_wide, port::mul_wide>(a, b);
+}
+constexpr int16_t mul_q15(int16_t a, int16_t b) noexcept {
+  return dispatch<generic::mul_q15, port::mul_q15>(a, b);
+}
+constexpr int32_t mul_q31(int32_t a, int32_t b) noexcept {
+  return dispatch<generic::mul_q31, port::mul_q31>(a, b);
+}
 constexpr int16_t sum_of_products_q15(int16_t a, int16_t b, int16_t c, int16_t d) noexcept {
-  ROTORQ_DETAIL_DISPATCH(sum_of_products_q15, a, b, c, d);
+  return dispatch<generic::sum_of_products_q15, port::sum_of_products_q15>(a, b, c, d);
 }
 constexpr int16_t difference_of_products_q15(int16_t a, int16_t b, int16_t c, int16_t d) noexcept {
-  ROTORQ_DETAIL_DISPATCH(difference_of_products_q15, a, b, c, d);
+  return dispatch<generic::difference_of_products_q15, port::difference_of_products_q15>(a, b, c, d);
 }
 constexpr int32_t sum_of_products_q31(int32_t a, int32_t b, int32_t c, int32_t d) noexcept {
-  ROTORQ_DETAIL_DISPATCH(sum_of_products_q31, a, b, c, d);
+  return dispatch<generic::sum_of_products_q31, port::sum_of_products_q31>(a, b, c, d);
 }
 constexpr int32_t difference_of_products_q31(int32_t a, int32_t b, int32_t c, int32_t d) noexcept {
-  ROTORQ_DETAIL_DISPATCH(difference_of_products_q31, a, b, c, d);
+  return dispatch<generic::difference_of_products_q31, port::difference_of_products_q31>(a, b, c, d);
 }
 
 }  // namespace rotorq::detail::ops
-
-#undef ROTORQ_DETAIL_DISPATCH

@@ -23,7 +23,12 @@ namespace rotorq::ports::cortex_m_base {
 namespace detail = ::rotorq::detail;
 
 #if defined(__ARM_FEATURE_SAT) && !defined(ROTORQ_PORT_ISA_MODEL)
+// GCC's __ssat macro assigns its built-in's unsigned-typed result to an int32_t, which
+// -Wsign-conversion reports inside the expansion; the bits are the signed result.
+#pragma GCC diagnostic push
+#pragma GCC diagnostic ignored "-Wsign-conversion"
 inline int16_t sat16(int32_t v) noexcept { return static_cast<int16_t>(__ssat(v, 16)); }
+#pragma GCC diagnostic pop
 #else
 using detail::generic::sat16;
 #endif

@@ -30,7 +30,12 @@ inline int32_t ssat16(int32_t v) noexcept { return v < -32768 ? -32768 : (v > 32
 inline int32_t qadd(int32_t a, int32_t b) noexcept { return ::rotorq::detail::generic::add32(a, b); }
 inline int32_t qsub(int32_t a, int32_t b) noexcept { return ::rotorq::detail::generic::sub32(a, b); }
 #else
+// GCC's __ssat macro assigns its built-in's unsigned-typed result to an int32_t, which
+// -Wsign-conversion reports inside the expansion; the bits are the signed result.
+#pragma GCC diagnostic push
+#pragma GCC diagnostic ignored "-Wsign-conversion"
 inline int32_t ssat16(int32_t v) noexcept { return __ssat(v, 16); }
+#pragma GCC diagnostic pop
 inline int32_t qadd(int32_t a, int32_t b) noexcept { return __qadd(a, b); }
 inline int32_t qsub(int32_t a, int32_t b) noexcept { return __qsub(a, b); }
 #endif

@@ -1,0 +1,11 @@
+# Cortex-M4F (Armv7E-M with the DSP extension and a single-precision FPU, hard-float ABI), run on
+# QEMU's mps2-an386. Code in SSRAM1 at 0, data in SSRAM2/3 at 0x20000000, 4 MB each
+# (ports/targets/mps2.ld); picolibc's start-up code enables the FPU.
+set(CMAKE_SYSTEM_PROCESSOR cortex-m4)
+set(ROTORQ_TARGET_CORE_DEFAULT cortex-m4)
+set(ROTORQ_PORT_DEFAULT cortex_m_dsp)
+set(ROTORQ_TARGET_FLAGS -mcpu=cortex-m4 -mthumb -mfloat-abi=hard -mfpu=fpv4-sp-d16)
+set(ROTORQ_TARGET_MEMORY mps2.ld)
+set(ROTORQ_QEMU qemu-system-arm -M mps2-an386)
+set(ROTORQ_TOOLCHAIN_PREFIX arm-none-eabi-)
+include(${CMAKE_CURRENT_LIST_DIR}/bare-metal.cmake)
