@@ -726,6 +726,10 @@ inline void R5_SpeedFromZeroTicksAndHugeMotion() {
   ROTORQ_CHECK_EQ(speed_from_motion(0, 7).raw(), 0);
   ROTORQ_CHECK_EQ(speed_from_motion(int64_t{1} << 61, 1).raw(), electrical_speed::raw_max);
   ROTORQ_CHECK_EQ(speed_from_motion(-(int64_t{1} << 61), 1).raw(), -electrical_speed::raw_max);
+  // the most negative motion of all: its magnitude 2^63 is formed without overflow (found by the
+  // target vectors under UBSan), and it saturates like any huge motion
+  ROTORQ_CHECK_EQ(speed_from_motion(detail::int64_min, 1).raw(), -electrical_speed::raw_max);
+  ROTORQ_CHECK_EQ(speed_from_motion(detail::int64_min, ~uint64_t{0}).raw(), -(int64_t{1} << 16) / 2);
   ROTORQ_CHECK_EQ(electrical_speed::from_raw(detail::int64_min).raw(), -electrical_speed::raw_max);
   ROTORQ_CHECK_EQ(steps_at(electrical_speed::from_raw(-(int64_t{3} << 15)), 3), -4);  // -4.5 toward zero
   ROTORQ_CHECK_EQ(

@@ -67,10 +67,12 @@ class electrical_speed {
   int64_t raw_ = 0;  // |raw_| <= raw_max, so negation never overflows
 };
 
-// The speed of a motion of `steps` turn32 steps (signed, |steps| < 2^62) in `ticks` timer ticks.
+// The speed of a motion of `steps` turn32 steps (signed, any value; beyond |raw_max| per tick the
+// result saturates) in `ticks` timer ticks.
 constexpr electrical_speed speed_from_motion(int64_t steps, uint64_t ticks) noexcept {
   if (steps == 0 || ticks == 0) return electrical_speed::zero();
-  const uint64_t magnitude = steps < 0 ? static_cast<uint64_t>(-steps) : static_cast<uint64_t>(steps);
+  // negated in unsigned arithmetic: |INT64_MIN| = 2^63 is a magnitude too
+  const uint64_t magnitude = steps < 0 ? 0 - static_cast<uint64_t>(steps) : static_cast<uint64_t>(steps);
   const auto q = static_cast<int64_t>(
       detail::quotient_q16(magnitude, ticks, static_cast<uint64_t>(electrical_speed::raw_max)));
   return electrical_speed::from_raw(steps < 0 ? -q : q);
