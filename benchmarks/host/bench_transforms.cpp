@@ -1,105 +1,143 @@
-// Time per call of each rotorq function and of one current-loop chain, next to the straightforward
-// double and float code a firmware engineer would otherwise write. Inputs cycle through a table of
-// 1024 precomputed values so the compiler cannot fold the calls away.
-#include <benchmark/benchmark.h>
+// sin_cos, the Clarke and Park transforms and one current-loop chain (Clarke -> sin_cos -> Park ->
+// inverse Park -> svpwm), each next to the same steps in float and double with std::sin and std::cos.
+#include "bench_support.hpp"
+#include "plain_math.hpp"
+#include "rotorq/clarke.hpp"
+#include "rotorq/park.hpp"
+#include "rotorq/sin_cos.hpp"
+#include "rotorq/svpwm.hpp"
 
-#include <array>
-#include <cmath>
-#include <cstdint>
-#include <random>
-
-#include "rotorq/rotorq.hpp"
+namespace rotorq::bench {
 
 namespace {
 
-constexpr size_t input_count = 1024;
+template <typename T>
+using angle_t = typename angle_type<T>::type;
 
 template <typename T>
-std::array<T, input_count> random_raw(uint64_t seed) {
-  std::mt19937_64 rng(seed);
-  std::array<T, input_count> values{};
-  for (T& v : values) v = static_cast<T>(rng());
+const table<angle_t<T>>& angle_table() {
+  static const auto values =
+      make_table<angle_t<T>>(21, [](std::mt19937_64& rng) { return angle<T>(uniform(rng, 0, 1)); });
   return values;
 }
 
-template <int F>
-void bm_sin_cos(benchmark::State& state) {
-  using angle_type = typename rotorq::detail::select<F == 15, rotorq::turn16, rotorq::turn32>::type;
-  const auto raws = random_raw<typename angle_type::raw_type>(1);
-  size_t i = 0;
-  for (auto _ : state) {
-    benchmark::DoNotOptimize(rotorq::sin_cos(angle_type::from_raw(raws[i++ % input_count])));
-  }
+// Measured phase currents: a balanced set of amplitude up to 0.75 at any angle, each phase with up
+// to 1% of offset, so that the zero-sequence part is not exactly zero.
+template <typename T>
+phases<T> phase_currents(std::mt19937_64& rng) {
+  const double amplitude = uniform(rng, 0, 0.75), theta = uniform(rng, 0, 6.283185307179586477);
+  const double third = 2.0943951023931954923;
+  return {number<T>(amplitude * std::cos(theta) + uniform(rng, -0.01, 0.01)),
+          number<T>(amplitude * std::cos(theta - third) + uniform(rng, -0.01, 0.01)),
+          number<T>(amplitude * std::cos(theta + third) + uniform(rng, -0.01, 0.01))};
 }
 
-template <typename Real>
-void bm_sin_cos_libm(benchmark::State& state) {
-  const auto raws = random_raw<uint32_t>(1);
-  size_t i = 0;
-  for (auto _ : state) {
-    const Real x = static_cast<Real>(raws[i++ % input_count]) * static_cast<Real>(1.4629180792671596e-9);
-    benchmark::DoNotOptimize(std::sin(x));
-    benchmark::DoNotOptimize(std::cos(x));
-  }
+template <typename T>
+const table<phases<T>>& current_table() {
+  static const auto values = make_table<phases<T>>(22, phase_currents<T>);
+  return values;
 }
 
-template <int F>
-rotorq::phases<rotorq::fixed<F>> balanced(uint64_t seed_value) {
-  using Q = rotorq::fixed<F>;
-  using raw_type = typename Q::raw_type;
-  const auto a = static_cast<raw_type>(static_cast<int64_t>(seed_value % 20000) - 10000);
-  const auto b = static_cast<raw_type>(static_cast<int64_t>((seed_value / 20000) % 20000) - 10000);
-  const Q qa = Q::from_raw(a), qb = Q::from_raw(b);
-  return {qa, qb, -(qa + qb)};
+template <typename T>
+const table<stationary<T>>& vector_table() {
+  static const auto values =
+      make_table<stationary<T>>(23, [](std::mt19937_64& rng) { return random_vector<T>(rng, 0.75); });
+  return values;
 }
 
-// One current-loop step: Clarke -> sin_cos -> Park -> (regulator stand-in) -> inverse Park.
-template <int F>
-void bm_chain(benchmark::State& state) {
-  using Q = rotorq::fixed<F>;
-  using angle_type = typename rotorq::detail::select<F == 15, rotorq::turn16, rotorq::turn32>::type;
-  const auto raws = random_raw<typename angle_type::raw_type>(2);
-  const auto seeds = random_raw<uint32_t>(3);
-  size_t i = 0;
-  for (auto _ : state) {
-    const size_t k = i++ % input_count;
-    const auto pair = rotorq::sin_cos(angle_type::from_raw(raws[k]));
-    const rotorq::rotating<Q> dq = rotorq::park(rotorq::clarke(balanced<F>(seeds[k])), pair);
-    benchmark::DoNotOptimize(rotorq::inverse_clarke(rotorq::inverse_park(dq, pair)));
-  }
+template <typename T>
+sin_cos_pair<T> pair_at(double turns) {
+  using plain::sin_cos;
+  using rotorq::sin_cos;
+  return sin_cos(angle<T>(turns));
 }
 
-template <typename Real>
-void bm_chain_libm(benchmark::State& state) {
-  const auto raws = random_raw<uint32_t>(2);
-  const auto seeds = random_raw<uint32_t>(3);
-  const Real k3 = static_cast<Real>(0.57735026918962576), h = static_cast<Real>(0.86602540378443865);
-  size_t i = 0;
-  for (auto _ : state) {
-    const size_t k = i++ % input_count;
-    const Real theta = static_cast<Real>(raws[k]) * static_cast<Real>(1.4629180792671596e-9);
-    const Real a = static_cast<Real>(seeds[k] % 20000) * Real(1e-4) - Real(1);
-    const Real b = static_cast<Real>((seeds[k] / 20000) % 20000) * Real(1e-4) - Real(1);
-    const Real c = -a - b;
-    const Real alpha = (2 * a - b - c) / 3, beta = (b - c) * k3;
-    const Real s = std::sin(theta), co = std::cos(theta);
-    const Real d = alpha * co + beta * s, q = -alpha * s + beta * co;
-    const Real al = d * co - q * s, be = d * s + q * co;
-    benchmark::DoNotOptimize(al);
-    benchmark::DoNotOptimize(-al / 2 + h * be);
-    benchmark::DoNotOptimize(-al / 2 - h * be);
-  }
+template <typename T, typename Vector>
+struct rotation_input {
+  Vector v;
+  sin_cos_pair<T> angle;
+};
+
+template <typename T, typename Vector>
+const table<rotation_input<T, Vector>>& rotation_table() {
+  static const auto values = make_table<rotation_input<T, Vector>>(24, [](std::mt19937_64& rng) {
+    const stationary<T> v = random_vector<T>(rng, 0.75);
+    return rotation_input<T, Vector>{{v.alpha, v.beta}, pair_at<T>(uniform(rng, 0, 1))};
+  });
+  return values;
 }
 
-BENCHMARK(bm_sin_cos<15>)->Name("sin_cos/q15");
-BENCHMARK(bm_sin_cos<31>)->Name("sin_cos/q31");
-BENCHMARK(bm_sin_cos_libm<float>)->Name("sin_cos/float libm");
-BENCHMARK(bm_sin_cos_libm<double>)->Name("sin_cos/double libm");
-BENCHMARK(bm_chain<15>)->Name("chain/q15");
-BENCHMARK(bm_chain<31>)->Name("chain/q31");
-BENCHMARK(bm_chain_libm<float>)->Name("chain/float libm");
-BENCHMARK(bm_chain_libm<double>)->Name("chain/double libm");
+template <typename T>
+struct chain_input {
+  phases<T> current;
+  angle_t<T> angle;
+};
+
+template <typename T>
+const table<chain_input<T>>& chain_table() {
+  static const auto values = make_table<chain_input<T>>(25, [](std::mt19937_64& rng) {
+    return chain_input<T>{phase_currents<T>(rng), angle<T>(uniform(rng, 0, 1))};
+  });
+  return values;
+}
 
 }  // namespace
 
-BENCHMARK_MAIN();
+void register_transforms() {
+  using plain::clarke;
+  using plain::clarke_balanced;
+  using plain::clarke_power_invariant;
+  using plain::inverse_clarke;
+  using plain::inverse_clarke_power_invariant;
+  using plain::inverse_park;
+  using plain::park;
+  using plain::sin_cos;
+  using plain::svpwm;
+
+  add_function<q15, q31, float, double>("sin_cos", [](auto type, benchmark::State& state) {
+    using T = typename decltype(type)::type;
+    time_calls(state, angle_table<T>(), [](angle_t<T> a) { return sin_cos(a); });
+  });
+  add_function<q15, q31, float, double>("clarke", [](auto type, benchmark::State& state) {
+    using T = typename decltype(type)::type;
+    time_calls(state, current_table<T>(), [](phases<T> i) { return clarke(i); });
+  });
+  add_function<q15, q31, float, double>("clarke_balanced", [](auto type, benchmark::State& state) {
+    using T = typename decltype(type)::type;
+    time_calls(state, current_table<T>(), [](phases<T> i) { return clarke_balanced(i.a, i.b); });
+  });
+  add_function<q15, q31, float, double>("inverse_clarke", [](auto type, benchmark::State& state) {
+    using T = typename decltype(type)::type;
+    time_calls(state, vector_table<T>(), [](stationary<T> v) { return inverse_clarke(v); });
+  });
+  add_function<q15, q31, float, double>("clarke_power_invariant", [](auto type, benchmark::State& state) {
+    using T = typename decltype(type)::type;
+    time_calls(state, current_table<T>(), [](phases<T> i) { return clarke_power_invariant(i); });
+  });
+  add_function<q15, q31, float, double>("inverse_clarke_power_invariant", [](auto type,
+                                                                             benchmark::State& state) {
+    using T = typename decltype(type)::type;
+    time_calls(state, vector_table<T>(), [](stationary<T> v) { return inverse_clarke_power_invariant(v); });
+  });
+  add_function<q15, q31, float, double>("park", [](auto type, benchmark::State& state) {
+    using T = typename decltype(type)::type;
+    time_calls(state, rotation_table<T, stationary<T>>(),
+               [](const rotation_input<T, stationary<T>>& x) { return park(x.v, x.angle); });
+  });
+  add_function<q15, q31, float, double>("inverse_park", [](auto type, benchmark::State& state) {
+    using T = typename decltype(type)::type;
+    time_calls(state, rotation_table<T, rotating<T>>(),
+               [](const rotation_input<T, rotating<T>>& x) { return inverse_park(x.v, x.angle); });
+  });
+  // One current-loop step without the regulators: the measured currents come back as the voltage
+  // request, so about a quarter of the requests are beyond the circle and get limited.
+  add_function<q15, q31, float, double>("chain", [](auto type, benchmark::State& state) {
+    using T = typename decltype(type)::type;
+    time_calls(state, chain_table<T>(), [](const chain_input<T>& x) {
+      const sin_cos_pair<T> angle = sin_cos(x.angle);
+      return svpwm(inverse_park(park(clarke(x.current), angle), angle), overmodulation::circle);
+    });
+  });
+}
+
+}  // namespace rotorq::bench
