@@ -91,6 +91,9 @@ TEST(GenericOps, MatchExactArithmetic) {
     const int32_t a = random32(rng), b = random32(rng), c = random32(rng), d = random32(rng);
     const wide_int ab = wide_int{a} * b, cd = wide_int{c} * d;
     ASSERT_EQ(generic::mul_wide(a, b), static_cast<int64_t>(ab));
+    ASSERT_EQ(generic::mul_wide_u32(static_cast<uint32_t>(a), static_cast<uint32_t>(b)),
+              static_cast<uint64_t>(static_cast<unsigned __int128>(static_cast<uint32_t>(a)) *
+                                    static_cast<uint32_t>(b)));
     ASSERT_EQ(generic::mul_q31(a, b), clamp_to(round_pow2(ab, 31), 32));
     ASSERT_EQ(generic::sum_of_products_q31(a, b, c, d), clamp_to(round_pow2(ab + cd, 31), 32));
     ASSERT_EQ(generic::difference_of_products_q31(a, b, c, d), clamp_to(round_pow2(ab - cd, 31), 32));
@@ -123,6 +126,10 @@ void expect_port_matches_generic() {
   for (const int32_t a : e32) {
     for (const int32_t b : e32) {
       check(Port::mul_wide(a, b) == generic::mul_wide(a, b), "mul_wide", a, b);
+      check(Port::mul_wide_by_constant(a, b) == generic::mul_wide(a, b), "mul_wide_by_constant", a, b);
+      check(Port::mul_wide_u32(static_cast<uint32_t>(a), static_cast<uint32_t>(b)) ==
+                generic::mul_wide_u32(static_cast<uint32_t>(a), static_cast<uint32_t>(b)),
+            "mul_wide_u32", a, b);
       check(Port::mul_q31(a, b) == generic::mul_q31(a, b), "mul_q31", a, b);
       check(Port::add32(a, b) == generic::add32(a, b), "add32", a, b);
       check(Port::sub32(a, b) == generic::sub32(a, b), "sub32", a, b);
@@ -172,6 +179,9 @@ void expect_port_matches_generic() {
   for (int i = 0; i < random_count; ++i) {
     const int32_t a = random32(rng), b = random32(rng), c = random32(rng), d = random32(rng);
     check(Port::mul_wide(a, b) == generic::mul_wide(a, b), "mul_wide", a, b);
+    check(Port::mul_wide_u32(static_cast<uint32_t>(c), static_cast<uint32_t>(d)) ==
+              generic::mul_wide_u32(static_cast<uint32_t>(c), static_cast<uint32_t>(d)),
+          "mul_wide_u32", c, d);
     check(Port::mul_q31(a, b) == generic::mul_q31(a, b), "mul_q31", a, b);
     check(Port::add32(a, b) == generic::add32(a, b), "add32", a, b);
     check(Port::sub32(a, b) == generic::sub32(a, b), "sub32", a, b);
@@ -193,30 +203,32 @@ void expect_port_matches_generic() {
 }
 
 // Adapters: a port namespace as a type, so one template checks them all.
-#define ROTORQ_PORT_ADAPTER(name, ns)                                                       \
-  struct name {                                                                             \
-    static int16_t sat16(int32_t v) { return ns::sat16(v); }                                \
-    static int16_t sat16_wide(int64_t v) { return ns::sat16_wide(v); }                      \
-    static int32_t sat32(int64_t v) { return ns::sat32(v); }                                \
-    static int16_t add16(int16_t a, int16_t b) { return ns::add16(a, b); }                  \
-    static int16_t sub16(int16_t a, int16_t b) { return ns::sub16(a, b); }                  \
-    static int32_t add32(int32_t a, int32_t b) { return ns::add32(a, b); }                  \
-    static int32_t sub32(int32_t a, int32_t b) { return ns::sub32(a, b); }                  \
-    static int64_t mul_wide(int32_t a, int32_t b) { return ns::mul_wide(a, b); }            \
-    static int16_t mul_q15(int16_t a, int16_t b) { return ns::mul_q15(a, b); }              \
-    static int32_t mul_q31(int32_t a, int32_t b) { return ns::mul_q31(a, b); }              \
-    static int16_t sum_of_products_q15(int16_t a, int16_t b, int16_t c, int16_t d) {        \
-      return ns::sum_of_products_q15(a, b, c, d);                                           \
-    }                                                                                       \
-    static int16_t difference_of_products_q15(int16_t a, int16_t b, int16_t c, int16_t d) { \
-      return ns::difference_of_products_q15(a, b, c, d);                                    \
-    }                                                                                       \
-    static int32_t sum_of_products_q31(int32_t a, int32_t b, int32_t c, int32_t d) {        \
-      return ns::sum_of_products_q31(a, b, c, d);                                           \
-    }                                                                                       \
-    static int32_t difference_of_products_q31(int32_t a, int32_t b, int32_t c, int32_t d) { \
-      return ns::difference_of_products_q31(a, b, c, d);                                    \
-    }                                                                                       \
+#define ROTORQ_PORT_ADAPTER(name, ns)                                                                    \
+  struct name {                                                                                          \
+    static int16_t sat16(int32_t v) { return ns::sat16(v); }                                             \
+    static int16_t sat16_wide(int64_t v) { return ns::sat16_wide(v); }                                   \
+    static int32_t sat32(int64_t v) { return ns::sat32(v); }                                             \
+    static int16_t add16(int16_t a, int16_t b) { return ns::add16(a, b); }                               \
+    static int16_t sub16(int16_t a, int16_t b) { return ns::sub16(a, b); }                               \
+    static int32_t add32(int32_t a, int32_t b) { return ns::add32(a, b); }                               \
+    static int32_t sub32(int32_t a, int32_t b) { return ns::sub32(a, b); }                               \
+    static int64_t mul_wide(int32_t a, int32_t b) { return ns::mul_wide(a, b); }                         \
+    static int64_t mul_wide_by_constant(int32_t a, int32_t b) { return ns::mul_wide_by_constant(a, b); } \
+    static uint64_t mul_wide_u32(uint32_t a, uint32_t b) { return ns::mul_wide_u32(a, b); }              \
+    static int16_t mul_q15(int16_t a, int16_t b) { return ns::mul_q15(a, b); }                           \
+    static int32_t mul_q31(int32_t a, int32_t b) { return ns::mul_q31(a, b); }                           \
+    static int16_t sum_of_products_q15(int16_t a, int16_t b, int16_t c, int16_t d) {                     \
+      return ns::sum_of_products_q15(a, b, c, d);                                                        \
+    }                                                                                                    \
+    static int16_t difference_of_products_q15(int16_t a, int16_t b, int16_t c, int16_t d) {              \
+      return ns::difference_of_products_q15(a, b, c, d);                                                 \
+    }                                                                                                    \
+    static int32_t sum_of_products_q31(int32_t a, int32_t b, int32_t c, int32_t d) {                     \
+      return ns::sum_of_products_q31(a, b, c, d);                                                        \
+    }                                                                                                    \
+    static int32_t difference_of_products_q31(int32_t a, int32_t b, int32_t c, int32_t d) {              \
+      return ns::difference_of_products_q31(a, b, c, d);                                                 \
+    }                                                                                                    \
   }
 
 ROTORQ_PORT_ADAPTER(dsp_port, dsp);
@@ -226,6 +238,7 @@ ROTORQ_PORT_ADAPTER(rv32_port, rv32);
 // The Armv6-M build of cortex_m_base: its 32 x 32 -> 64 product is the 16 x 16 decomposition.
 struct armv6m_port : base_port {
   static int64_t mul_wide(int32_t a, int32_t b) { return narrow::mul_wide_16x16(a, b); }
+  static uint64_t mul_wide_u32(uint32_t a, uint32_t b) { return narrow::mul_wide_u32_16x16(a, b); }
   static int32_t mul_q31(int32_t a, int32_t b) { return narrow::mul_q31<narrow::mul_wide_16x16>(a, b); }
   static int32_t sum_of_products_q31(int32_t a, int32_t b, int32_t c, int32_t d) {
     return narrow::sum_of_products_q31<narrow::mul_wide_16x16>(a, b, c, d);
@@ -246,6 +259,14 @@ TEST(Ports, Armv6mProductIsExactForEveryEdgePair) {
   for (const int32_t a : edges32()) {
     for (const int32_t b : edges32()) {
       ASSERT_EQ(narrow::mul_wide_16x16(a, b), static_cast<int64_t>(wide_int{a} * b)) << a << " * " << b;
+    }
+  }
+  for (const int32_t a : edges32()) {
+    for (const int32_t b : edges32()) {
+      const auto ua = static_cast<uint32_t>(a), ub = static_cast<uint32_t>(b);
+      ASSERT_EQ(narrow::mul_wide_u32_16x16(ua, ub),
+                static_cast<uint64_t>(static_cast<unsigned __int128>(ua) * ub))
+          << ua << " * " << ub;
     }
   }
   ASSERT_EQ(narrow::mul_wide_16x16(INT32_MIN, 0x0000ffff),

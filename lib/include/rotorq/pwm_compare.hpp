@@ -24,6 +24,7 @@
 #pragma once
 
 #include "rotorq/detail/integer.hpp"
+#include "rotorq/detail/ops.hpp"
 #include "rotorq/fixed.hpp"
 #include "rotorq/frames.hpp"
 
@@ -38,8 +39,9 @@ namespace detail {
 
 template <int F>
 constexpr uint32_t compare_of(fixed<F> duty, uint32_t period) noexcept {
-  const uint64_t d = duty.raw() > 0 ? static_cast<uint64_t>(duty.raw()) : 0u;  // < 2^F
-  return static_cast<uint32_t>((d * period + (uint64_t{1} << (F - 1))) >> F);  // <= period
+  const uint32_t d = duty.raw() > 0 ? static_cast<uint32_t>(duty.raw()) : 0u;  // < 2^F
+  return static_cast<uint32_t>((detail::ops::mul_wide_u32(d, period) + (uint64_t{1} << (F - 1))) >>
+                               F);  // <= period
 }
 
 constexpr uint32_t clip_pulse(uint32_t c, uint32_t period, uint32_t min_pulse) noexcept {

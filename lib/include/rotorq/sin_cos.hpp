@@ -88,13 +88,14 @@ constexpr sin_cos_pair<q31> sin_cos(turn32 angle) noexcept {
   using detail::ops::mul_wide;  // every product below is of two int32 values
 
   // delta * 2^39, |delta39| < 1.7e9; 843314857 = round(2 pi 2^27)
-  const auto delta39 = static_cast<int32_t>((mul_wide(steps, 843314857) + (int64_t{1} << 19)) >> 20);
+  const auto delta39 =
+      static_cast<int32_t>((detail::ops::mul_wide_by_constant(steps, 843314857) + (int64_t{1} << 19)) >> 20);
   // (1 - cos(delta)) * 2^48 ~ delta^2 / 2 * 2^48 <= 1.33e9
   const auto half_square48 = static_cast<int32_t>(mul_wide(delta39, delta39) >> 31);
   // delta^3 / 6 * 2^39: (delta * delta^2/2) * 2^55 (below 5.3e8 after the shift), times
   // round(2^32 / 3), shifted down
   const auto cube55 = static_cast<int32_t>(mul_wide(delta39, half_square48) >> 32);
-  const auto cube_sixth39 = static_cast<int32_t>(mul_wide(cube55, 1431655765) >> 48);
+  const auto cube_sixth39 = static_cast<int32_t>(detail::ops::mul_wide_by_constant(cube55, 1431655765) >> 48);
   const int32_t sin_delta39 = delta39 - cube_sixth39;
 
   // First-quadrant results in Q62; every product is below 2^62.

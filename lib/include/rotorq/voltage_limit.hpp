@@ -15,6 +15,7 @@
 
 #include "rotorq/detail/integer.hpp"
 #include "rotorq/detail/newton.hpp"
+#include "rotorq/detail/ops.hpp"
 #include "rotorq/fixed.hpp"
 #include "rotorq/frames.hpp"
 
@@ -31,7 +32,8 @@ namespace detail {
 // x^2 + y^2 for raw values in Q62 (exact; below 2^64).
 template <int F>
 constexpr uint64_t square_sum_q62(int32_t x, int32_t y) noexcept {
-  const uint64_t sum = static_cast<uint64_t>(int64_t{x} * x) + static_cast<uint64_t>(int64_t{y} * y);
+  const uint64_t sum =
+      static_cast<uint64_t>(ops::mul_wide(x, x)) + static_cast<uint64_t>(ops::mul_wide(y, y));
   return sum << (62 - 2 * F);
 }
 
@@ -43,10 +45,12 @@ constexpr bool scale_to_magnitude(int32_t& x, int32_t& y, int32_t m) noexcept {
   if (length_squared <= square_sum_q62<F>(limit, 0)) return false;
   const scaled_value inverse_length = reciprocal_sqrt_of_q62(length_squared);
   // k = m / |v| in Q30: m_raw R 2^exponent / 2^F; k < 1 (up to the error of R), so it fits.
-  const int64_t k30 =
-      scale_by_power_of_two(int64_t{limit} * inverse_length.mantissa, inverse_length.exponent - F);
-  x = static_cast<int32_t>(round_shift(int64_t{x} * k30, 30));
-  y = static_cast<int32_t>(round_shift(int64_t{y} * k30, 30));
+  const int64_t k30 = scale_by_power_of_two(
+      static_cast<int64_t>(ops::mul_wide_u32(static_cast<uint32_t>(limit), inverse_length.mantissa)),
+      inverse_length.exponent - F);
+  // k30 <= 2^30 (plus the error of R), so it fits an int32 and x k30 is an exact 32 x 32 product
+  x = static_cast<int32_t>(round_shift(ops::mul_wide(x, static_cast<int32_t>(k30)), 30));
+  y = static_cast<int32_t>(round_shift(ops::mul_wide(y, static_cast<int32_t>(k30)), 30));
   return true;
 }
 
@@ -61,7 +65,7 @@ constexpr int32_t sqrt_q62_to_raw(uint64_t s) noexcept {
   // cppcheck-suppress shiftTooManyBits ; s is a 64-bit value
   const auto m = static_cast<uint32_t>((s << shift) >> 32);
   // cppcheck-suppress shiftTooManyBits ; the product is a 64-bit value
-  const auto root30 = static_cast<int64_t>((uint64_t{m} * inverse_root.mantissa) >> 32);
+  const auto root30 = static_cast<int64_t>(ops::mul_wide_u32(m, inverse_root.mantissa) >> 32);
   const int64_t raw = scale_by_power_of_two(root30, F - 30 - inverse_root.exponent);
   return static_cast<int32_t>(raw < pow2(F) - 1 ? raw : pow2(F) - 1);
 }

@@ -13,6 +13,7 @@
 #pragma once
 
 #include "rotorq/detail/integer.hpp"
+#include "rotorq/detail/ops.hpp"
 
 namespace rotorq::detail {
 
@@ -44,12 +45,14 @@ constexpr int leading_zeros(uint32_t x) noexcept {
 constexpr uint32_t reciprocal_q30(uint32_t m) noexcept {
   // 48/17 and 32/17 in Q30
   // cppcheck-suppress shiftTooManyBits ; the product is a 64-bit value
-  uint64_t r = 3031741620u - ((uint64_t{2021161081u} * m) >> 32);
+  // Every product is of two values below 2^32 (R stays in [2^29.9, 2^31], M R below 2^31).
+  using ops::mul_wide_u32;
+  auto r = static_cast<uint32_t>(3031741620u - (mul_wide_u32(2021161081u, m) >> 32));
   for (int step = 0; step < 3; ++step) {
-    const uint64_t mr = (uint64_t{m} * r) >> 32;  // M R in Q30, close to 2^30
-    r = (r * ((uint64_t{1} << 31) - mr)) >> 30;
+    const auto mr = static_cast<uint32_t>(mul_wide_u32(m, r) >> 32);  // M R in Q30, close to 2^30
+    r = static_cast<uint32_t>(mul_wide_u32(r, (uint32_t{1} << 31) - mr) >> 30);
   }
-  return static_cast<uint32_t>(r);
+  return r;
 }
 
 // 1 / sqrt(M) in Q30 for M = m / 2^32 in [1/4, 1). The start comes from a table of 1/sqrt(M) at
@@ -83,13 +86,20 @@ constexpr reciprocal_sqrt_start_type make_reciprocal_sqrt_start() noexcept {
 inline constexpr reciprocal_sqrt_start_type reciprocal_sqrt_start = make_reciprocal_sqrt_start();
 
 constexpr uint32_t reciprocal_sqrt_q30(uint32_t m) noexcept {
-  uint64_t r = reciprocal_sqrt_start.value[(m >> 27) - 8];
+  // R stays at or below 2^31 (1/sqrt(M) <= 2), so R, R^2 / 2^30 (up to 2^32, hence the split) and
+  // 3 2^30 - M R^2 are products of values below 2^32.
+  using ops::mul_wide_u32;
+  uint32_t r = reciprocal_sqrt_start.value[(m >> 27) - 8];
   for (int step = 0; step < 3; ++step) {
-    const uint64_t r_squared = (r * r) >> 30;                      // Q30, <= 2^32
-    const uint64_t m_r_squared = (uint64_t{m} * r_squared) >> 32;  // M R^2 in Q30, close to 2^30
-    r = (r * ((uint64_t{3} << 30) - m_r_squared)) >> 31;
+    const uint64_t r_squared = mul_wide_u32(r, r) >> 30;  // Q30, <= 2^32
+    const uint64_t m_r_squared =                          // M R^2 in Q30, close to 2^30
+        (mul_wide_u32(m, static_cast<uint32_t>(r_squared)) +
+         ((r_squared >> 32) != 0 ? uint64_t{m} << 32 : 0)) >>
+        32;
+    r = static_cast<uint32_t>(mul_wide_u32(r, static_cast<uint32_t>((uint64_t{3} << 30) - m_r_squared)) >>
+                              31);
   }
-  return static_cast<uint32_t>(r);
+  return r;
 }
 
 // Leading zero bits of a nonzero 64-bit value.
@@ -124,9 +134,11 @@ constexpr int64_t scale_by_power_of_two(int64_t x, int shift) noexcept {
 // overflows.
 constexpr int64_t multiply_q30(int64_t v, uint32_t r) noexcept {
   // cppcheck-suppress unreadVariable ; read in the return statement
-  const int64_t high = v >> 32;                                                   // |high| < 2^31
-  const auto low = static_cast<int64_t>(static_cast<uint64_t>(v) & 0xffffffffu);  // [0, 2^32)
-  return high * int64_t{r} * 4 + ((low * int64_t{r}) >> 30);
+  const auto high = static_cast<int32_t>(v >> 32);                   // |high| < 2^31
+  const auto low = static_cast<uint32_t>(static_cast<uint64_t>(v));  // [0, 2^32)
+  // high r < 2^61 and low r < 2^62: exact 32 x 32 -> 64 products (r <= 2^30 fits an int32)
+  return ops::mul_wide(high, static_cast<int32_t>(r)) * 4 +
+         static_cast<int64_t>(ops::mul_wide_u32(low, r) >> 30);
 }
 
 }  // namespace rotorq::detail

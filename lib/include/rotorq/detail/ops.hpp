@@ -62,6 +62,12 @@ constexpr int32_t sub32(int32_t a, int32_t b) noexcept { return dispatch<generic
 constexpr int64_t mul_wide(int32_t a, int32_t b) noexcept {
   return dispatch<generic::mul_wide, port::mul_wide>(a, b);
 }
+constexpr uint64_t mul_wide_u32(uint32_t a, uint32_t b) noexcept {
+  return dispatch<generic::mul_wide_u32, port::mul_wide_u32>(a, b);
+}
+constexpr int64_t mul_wide_by_constant(int32_t a, int32_t k) noexcept {
+  return dispatch<generic::mul_wide_by_constant, port::mul_wide_by_constant>(a, k);
+}
 constexpr int16_t mul_q15(int16_t a, int16_t b) noexcept {
   return dispatch<generic::mul_q15, port::mul_q15>(a, b);
 }

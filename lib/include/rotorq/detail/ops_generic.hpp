@@ -34,6 +34,11 @@ constexpr int32_t sub32(int32_t a, int32_t b) noexcept { return sat32(int64_t{a}
 
 // The exact product of two int32 values; |result| <= 2^62.
 constexpr int64_t mul_wide(int32_t a, int32_t b) noexcept { return int64_t{a} * int64_t{b}; }
+// The exact product of two uint32 values; result < 2^64.
+constexpr uint64_t mul_wide_u32(uint32_t a, uint32_t b) noexcept { return uint64_t{a} * uint64_t{b}; }
+// The same as mul_wide, where k is a compile-time constant (a port may keep a compiler from expanding the
+// product into shifts and additions).
+constexpr int64_t mul_wide_by_constant(int32_t a, int32_t k) noexcept { return mul_wide(a, k); }
 
 // a * b / 2^15 and a * b / 2^31, rounded and saturated (only -1 * -1 saturates).
 constexpr int16_t mul_q15(int16_t a, int16_t b) noexcept {

@@ -80,6 +80,14 @@ constexpr int64_t mul_wide_16x16(int32_t a, int32_t b) noexcept {
   return int64_t{high} * pow2(32) + middle * pow2(16) + int64_t{low};
 }
 
+// The unsigned exact product the same way: ah bh, al bl < 2^32, ah bl + al bh < 2^33.
+constexpr uint64_t mul_wide_u32_16x16(uint32_t a, uint32_t b) noexcept {
+  const uint32_t ah = a >> 16, al = a & 0xffffu;
+  const uint32_t bh = b >> 16, bl = b & 0xffffu;
+  const uint64_t middle = uint64_t{ah * bl} + uint64_t{al * bh};
+  return (uint64_t{ah * bh} << 32) + (middle << 16) + uint64_t{al * bl};
+}
+
 // MulFn is the exact 32 x 32 -> 64 product of the core.
 template <int64_t (*MulFn)(int32_t, int32_t) noexcept>
 constexpr int32_t mul_q31(int32_t a, int32_t b) noexcept {

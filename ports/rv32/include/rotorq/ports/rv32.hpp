@@ -20,6 +20,8 @@ using detail::generic::add16;
 using detail::generic::difference_of_products_q15;
 using detail::generic::mul_q15;
 using detail::generic::mul_wide;  // MUL + MULH
+using detail::generic::mul_wide_by_constant;
+using detail::generic::mul_wide_u32;  // MUL + MULHU
 using detail::generic::sat16;
 using detail::generic::sub16;
 using detail::generic::sum_of_products_q15;
