@@ -34,6 +34,11 @@ void rotorq_usage_q15(const int16_t* in, uint16_t raw_angle, int16_t* out) {
       duty_to_compare(m.duty, static_cast<uint32_t>(in[8]), static_cast<uint32_t>(in[9]));
   out[4] = static_cast<int16_t>(c.compare.a + c.compare.b + c.compare.c + m.sector);
   out[5] = static_cast<int16_t>(sine_pwm(v).duty.a.raw() + six_step(v).duty.b.raw());
+
+  pi_regulator<q15> current({q15::from_raw(in[10]), -2}, {q15::from_raw(in[11]), -8});
+  current.set_limit(q15::from_raw(in[12]));
+  current.preset(r.d);
+  out[6] = current.update(s.alpha, r.q, m.duty.c).raw();
 }
 
 void rotorq_usage_q31(const int32_t* in, uint32_t raw_angle, int32_t* out) {

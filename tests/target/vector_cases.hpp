@@ -29,6 +29,7 @@
 #include "rotorq/hall.hpp"
 #include "rotorq/hall_tracker.hpp"
 #include "rotorq/park.hpp"
+#include "rotorq/pi_regulator.hpp"
 #include "rotorq/pwm_compare.hpp"
 #include "rotorq/sin_cos.hpp"
 #include "rotorq/svpwm.hpp"
@@ -392,6 +393,46 @@ struct transform_cases {
     o[2] = c.compare.c;
     o[3] = word(c.clipped);
   }
+  // A PI regulator from a seed: gains of every exponent (and out-of-range ones), limits that change
+  // (inverted ones too), presets and resets, references and measurements at full scale, so the
+  // anti-windup and every saturation are exercised.
+  static void pi(const uint32_t* in, uint32_t* o) {
+    random_words rng{in[0] | 1u};
+    const auto gain = [&rng]() {
+      const uint32_t r = rng.next();
+      return pi_gain<Q>{as_fixed<F>(rng.next()), static_cast<int>(r % 40u) - 20};
+    };
+    // one draw per statement: the order of evaluation of function arguments is unspecified
+    const pi_gain<Q> kp = gain();
+    const pi_gain<Q> ki = gain();
+    const Q high = as_fixed<F>(rng.next());
+    pi_regulator<Q> reg(kp, ki, as_fixed<F>(in[1]), high);
+    hash32 h;
+    for (int i = 0; i < 200; ++i) {
+      const uint32_t r = rng.next();
+      if ((r & 63u) == 0) {
+        const Q lo = as_fixed<F>(rng.next());
+        reg.set_limits(lo, as_fixed<F>(rng.next()));
+      }
+      if ((r & 63u) == 1) reg.set_limit(as_fixed<F>(rng.next()));
+      if ((r & 127u) == 2) reg.preset(as_fixed<F>(rng.next()));
+      if ((r & 255u) == 3) reg.reset();
+      if ((r & 255u) == 4) {
+        const pi_gain<Q> p = gain();
+        reg.set_gains(p, gain());
+      }
+      const Q reference = (r & 0x100u) != 0 ? as_fixed<F>(rng.next()) : Q::max();
+      const Q measured = (r & 0x200u) != 0 ? as_fixed<F>(rng.next()) : Q::min();
+      const Q feedforward = (r & 0xc00u) == 0 ? as_fixed<F>(rng.next()) : Q::zero();
+      h.add(out(reg.update(reference, measured, feedforward)));
+      h.add(low_word(reg.integrator_wide()) ^ (word(reg.saturated()) << 31));
+      h.add(high_word(reg.integrator_wide()));
+    }
+    o[0] = h.value;
+    o[1] = out(reg.output());
+    o[2] = out(reg.lower_limit());
+    o[3] = out(reg.upper_limit());
+  }
   static void commutation_voltage(const uint32_t* in, uint32_t* o) {
     const commutation_state s = six_step_commutation(static_cast<uint8_t>(in[0]), as_rotation(in[1]));
     put(rotorq::commutation_voltage(s, as_fixed<F>(in[2])), o);
@@ -610,9 +651,13 @@ constexpr kind k() noexcept {
             {k<F>(), k<F>(), k<F>(), kind::period, kind::pulse},                                             \
             4,                                                                                               \
             transform_cases<F>::compare},                                                                    \
+      group{"q" #F "_commutation_voltage",                                                                   \
+            3,                                                                                               \
+            {kind::code, kind::direction, k<F>()},                                                           \
+            2,                                                                                               \
+            transform_cases<F>::commutation_voltage},                                                        \
       group {                                                                                                \
-    "q" #F "_commutation_voltage", 3, {kind::code, kind::direction, k<F>()}, 2,                              \
-        transform_cases<F>::commutation_voltage                                                              \
+    "q" #F "_pi_regulator", 2, {kind::word, k<F>()}, 4, transform_cases<F>::pi, 256                          \
   }
 
 #define ROTORQ_TURN_GROUPS(N)                                                                               \

@@ -14,6 +14,7 @@
 #include "rotorq/hall.hpp"
 #include "rotorq/hall_tracker.hpp"
 #include "rotorq/park.hpp"
+#include "rotorq/pi_regulator.hpp"
 #include "rotorq/pwm_compare.hpp"
 #include "rotorq/rotation.hpp"
 #include "rotorq/sin_cos.hpp"

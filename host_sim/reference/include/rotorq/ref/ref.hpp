@@ -7,6 +7,7 @@
 #include "rotorq/ref/clarke.hpp"
 #include "rotorq/ref/fixed.hpp"
 #include "rotorq/ref/park.hpp"
+#include "rotorq/ref/pi_regulator.hpp"
 #include "rotorq/ref/rotor_angle.hpp"
 #include "rotorq/ref/sin_cos.hpp"
 #include "rotorq/ref/svpwm.hpp"
