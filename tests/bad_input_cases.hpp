@@ -59,7 +59,8 @@
   X(R4_AngleInterpolatorBeforeSamplesSameTimeAndStale)         \
   X(R5_SpeedFromZeroTicksAndHugeMotion)                        \
   X(R7_CommutationOfUnknownTorqueAndOutOfRangeSectors)         \
-  X(R8_HandoverWithUnknownTorqueStaysInSixStep)
+  X(R8_HandoverWithUnknownTorqueStaysInSixStep)                \
+  X(G1_PiRegulatorInvertedLimitsHugeGainsFullScaleErrors)
 
 namespace rotorq::bad_input {
 
@@ -772,6 +773,83 @@ inline void R8_HandoverWithUnknownTorqueStaysInSixStep() {
   const drive_command back = handover.update(angle, electrical_speed::from_raw(2000), rotation::unknown);
   ROTORQ_CHECK_EQ(back.mode, drive_mode::six_step);  // unknown torque drops FOC at once
   ROTORQ_CHECK_FALSE(back.six_step.active);
+}
+
+// Contract row G1: every input has a defined result. Inverted limits collapse to
+// floor((lo + hi) / 2); a negative symmetric limit counts as 0; negative mantissas count as 0 and
+// exponents beyond [-16, 15] as the nearest end; full-scale errors with the largest gain saturate at
+// the limits without overflow; the integrator never leaves the limits.
+template <int F>
+inline void check_pi_regulator() {
+  using Q = fixed<F>;
+  ROTORQ_SCOPE(F == 15 ? "q15" : "q31");
+  // eighths: k / 8 of full scale, exact in both formats
+  const auto eighths = [](int k) {
+    return Q::from_raw(static_cast<typename Q::raw_type>(k * detail::pow2(F - 3)));
+  };
+  pi_regulator<Q> r({Q::max(), 1000}, {Q::max(), 1000});
+  ROTORQ_CHECK_EQ(r.proportional_gain().exponent, 15);
+  ROTORQ_CHECK_EQ(r.integral_gain().exponent, 15);
+  for (int k = 0; k < 3; ++k) {
+    // error 2 - 2^-F, gain ~ 32768: the proportional term alone saturates, so the integrator holds
+    ROTORQ_CHECK_EQ(r.update(Q::max(), Q::min()).raw(), Q::max().raw());
+    ROTORQ_CHECK(r.saturated());
+    ROTORQ_CHECK_EQ(r.integrator_wide(), 0);
+    ROTORQ_CHECK_EQ(r.update(Q::min(), Q::max()).raw(), Q::min().raw());
+    ROTORQ_CHECK_EQ(r.integrator_wide(), 0);
+  }
+  // at the top with a small negative error the increment leads out of saturation: it is taken
+  r.preset(Q::max());
+  r.update(Q::zero(), Q::from_raw(1));
+  ROTORQ_CHECK_LT(r.integrator_wide(), Q::raw_max * 65536);
+  ROTORQ_CHECK_FALSE(r.saturated());
+  r.set_limits(eighths(4), eighths(-2));  // inverted: both floor((0.5 - 0.25) / 2) = 0.125
+  ROTORQ_CHECK_EQ(r.lower_limit().raw(), eighths(1).raw());
+  ROTORQ_CHECK_EQ(r.upper_limit().raw(), eighths(1).raw());
+  ROTORQ_CHECK_EQ(r.update(Q::min(), Q::max()).raw(), eighths(1).raw());
+  ROTORQ_CHECK_EQ(r.integrator().raw(), eighths(1).raw());
+  r.set_limits(Q::max(), Q::min());  // floor((max + min) / 2) = floor(-1/2) = -1 raw
+  ROTORQ_CHECK_EQ(r.upper_limit().raw(), -1);
+  r.set_limit(Q::min());  // negative: counts as 0
+  ROTORQ_CHECK_EQ(r.lower_limit().raw(), 0);
+  ROTORQ_CHECK_EQ(r.upper_limit().raw(), 0);
+  ROTORQ_CHECK_EQ(r.update(Q::max(), Q::min()).raw(), 0);
+  r.set_limit(Q::max());
+  ROTORQ_CHECK_EQ(r.lower_limit().raw(), -Q::raw_max);
+  // limits that exclude zero: the integrator is clamped into them at once, and reset goes to the
+  // limit nearest zero
+  r.preset(eighths(-6));
+  r.set_limits(eighths(2), eighths(4));
+  ROTORQ_CHECK_EQ(r.integrator().raw(), eighths(2).raw());
+  r.preset(eighths(4));
+  r.reset();
+  ROTORQ_CHECK_EQ(r.integrator().raw(), eighths(2).raw());
+  r.set_limits(eighths(-4), eighths(-1));
+  ROTORQ_CHECK_EQ(r.integrator().raw(), eighths(-1).raw());
+
+  pi_regulator<Q> negative({Q::min(), 3}, {eighths(-4), -2});  // negative mantissas: gains 0
+  ROTORQ_CHECK_EQ(negative.proportional_gain().mantissa.raw(), 0);
+  ROTORQ_CHECK_EQ(negative.update(Q::max(), Q::min()).raw(), 0);
+  ROTORQ_CHECK_EQ(negative.integrator_wide(), 0);
+
+  pi_regulator<Q> tiny({Q::from_raw(1), -1000}, {Q::from_raw(1), -1000});  // exponent -> -16
+  ROTORQ_CHECK_EQ(tiny.proportional_gain().exponent, -16);
+  tiny.update(Q::max(), Q::min());
+  // 1 raw x 2^-16 x (2 - 2^-F): about 2^-(F+15) = 2 units of 2^-(F+16)
+  ROTORQ_CHECK_EQ(tiny.integrator_wide(), 2);
+  ROTORQ_CHECK_EQ(tiny.output().raw(), 0);
+
+  // feedforward at full scale with the output at the other end
+  pi_regulator<Q> ff({Q::max(), 15}, {Q::zero(), 0}, Q::min(), Q::max());
+  ROTORQ_CHECK_EQ(ff.update(Q::min(), Q::max(), Q::max()).raw(), Q::min().raw());
+  ROTORQ_CHECK_EQ(ff.update(Q::zero(), Q::zero(), Q::min()).raw(), Q::min().raw());
+  ROTORQ_CHECK_EQ(ff.update(Q::zero(), Q::zero(), Q::max()).raw(), Q::max().raw());
+}
+
+inline void G1_PiRegulatorInvertedLimitsHugeGainsFullScaleErrors() {
+  ROTORQ_SCOPE("contract row G1: pi_regulator");
+  check_pi_regulator<15>();
+  check_pi_regulator<31>();
 }
 
 }  // namespace rotorq::bad_input
