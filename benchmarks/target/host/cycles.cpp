@@ -850,7 +850,8 @@ std::string markdown(const json& results) {
     }
   }
 
-  md += "\nThe cycle targets set for the library (estimated cycles, -O2):\n\n| target | result |\n|---|---|\n";
+  md +=
+      "\nThe cycle targets set for the library (estimated cycles, -O2):\n\n| target | result |\n|---|---|\n";
   for (const json& t : results.at("targets")) {
     md += fmt::format("| {} | {} |\n", t.at("target").get<std::string>(), t.at("status").get<std::string>());
   }
