@@ -88,6 +88,20 @@ constexpr uint64_t mul_wide_u32_16x16(uint32_t a, uint32_t b) noexcept {
   return (uint64_t{ah * bh} << 32) + (middle << 16) + uint64_t{al * bl};
 }
 
+// The exact product written as Armv7-M's SMULL, for products by a constant, which GCC would expand
+// into shift-and-add chains (some 20 instructions for 0x55555555). With ROTORQ_PORT_ISA_MODEL (the
+// host's check of the ports) it is the plain product.
+inline int64_t smull(int32_t a, int32_t b) noexcept {
+#if defined(ROTORQ_PORT_ISA_MODEL) || !defined(__ARM_ARCH_ISA_THUMB) || __ARM_ARCH_ISA_THUMB < 2
+  return int64_t{a} * int64_t{b};
+#else
+  uint32_t low = 0;
+  uint32_t high = 0;
+  __asm__("smull %0, %1, %2, %3" : "=r"(low), "=r"(high) : "r"(a), "r"(b));
+  return to_signed((uint64_t{high} << 32) | low);
+#endif
+}
+
 // MulFn is the exact 32 x 32 -> 64 product of the core.
 template <int64_t (*MulFn)(int32_t, int32_t) noexcept>
 constexpr int32_t mul_q31(int32_t a, int32_t b) noexcept {

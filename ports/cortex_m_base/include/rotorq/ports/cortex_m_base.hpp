@@ -50,17 +50,8 @@ inline uint64_t mul_wide_u32(uint32_t a, uint32_t b) noexcept {
 #else
 using detail::generic::mul_wide;      // SMULL on Armv7-M
 using detail::generic::mul_wide_u32;  // UMULL on Armv7-M
-// A product by a constant as the instruction: GCC would expand it into shift-and-add chains.
-inline int64_t mul_wide_by_constant(int32_t a, int32_t k) noexcept {
-#if defined(ROTORQ_PORT_ISA_MODEL)
-  return mul_wide(a, k);
-#else
-  uint32_t low = 0;
-  uint32_t high = 0;
-  __asm__("smull %0, %1, %2, %3" : "=r"(low), "=r"(high) : "r"(a), "r"(k));
-  return detail::to_signed((uint64_t{high} << 32) | low);
-#endif
-}
+// A product by a constant as the instruction (GCC would expand it into shifts and additions).
+inline int64_t mul_wide_by_constant(int32_t a, int32_t k) noexcept { return detail::narrow::smull(a, k); }
 #endif
 
 inline int16_t mul_q15(int16_t a, int16_t b) noexcept {

@@ -55,18 +55,8 @@ inline int32_t sub32(int32_t a, int32_t b) noexcept { return isa::qsub(a, b); }
 using detail::generic::mul_wide;      // SMULL, which GCC fuses with a following addition into SMLAL
 using detail::generic::mul_wide_u32;  // UMULL
 
-// A product by a constant: GCC expands a 64-bit product by a constant into shift-and-add chains
-// (some 20 instructions for 0x55555555) where one SMULL does, so here it is the instruction.
-inline int64_t mul_wide_by_constant(int32_t a, int32_t k) noexcept {
-#if defined(ROTORQ_PORT_ISA_MODEL)
-  return mul_wide(a, k);
-#else
-  uint32_t low = 0;
-  uint32_t high = 0;
-  __asm__("smull %0, %1, %2, %3" : "=r"(low), "=r"(high) : "r"(a), "r"(k));
-  return detail::to_signed((uint64_t{high} << 32) | low);
-#endif
-}
+// A product by a constant as the instruction (GCC would expand it into shifts and additions).
+inline int64_t mul_wide_by_constant(int32_t a, int32_t k) noexcept { return detail::narrow::smull(a, k); }
 
 inline int16_t mul_q15(int16_t a, int16_t b) noexcept {
   return sat16((int32_t{a} * int32_t{b} + (1 << 14)) >> 15);  // SMULBB, ADD, ASR, SSAT
