@@ -20,7 +20,6 @@
 #include <chrono>
 #include <cmath>
 #include <cstdlib>
-#include <cstring>
 #include <filesystem>
 #include <fstream>
 #include <sstream>
@@ -28,6 +27,7 @@
 #include <vector>
 
 #include "rotorq/sim/simulation.hpp"
+#include "rotorq/tools/readme_table.hpp"
 
 namespace {
 
@@ -455,23 +455,6 @@ void write_summary(const fs::path& path, const std::vector<scenario_result>& res
       host, simulated, simulated / host);
 }
 
-bool read_text(const std::string& path, std::string& text) {
-  std::ifstream in(path, std::ios::binary);
-  if (!in) return false;
-  std::ostringstream buffer;
-  buffer << in.rdbuf();
-  text = buffer.str();
-  return true;
-}
-
-std::string with_table(const std::string& readme, const std::string& table) {
-  const size_t begin = readme.find(begin_marker);
-  const size_t end = readme.find(end_marker);
-  if (begin == std::string::npos || end == std::string::npos || end < begin) return {};
-  const size_t after_begin = begin + std::strlen(begin_marker);
-  return readme.substr(0, after_begin) + "\n" + table + readme.substr(end);
-}
-
 // Real-time factor: 1 s of simulated time (a copy of the scenario cut or extended to 1 s), without
 // recording, best of three.
 void benchmark(const std::vector<scenario>& scenarios) {
@@ -563,30 +546,11 @@ int run_tool(int argc, char** argv) {
     }
   }
 
-  for (const std::string& path : {write_readme, check_readme}) {
-    if (path.empty()) continue;
-    std::string readme;
-    if (!read_text(path, readme)) {
-      fmt::print(stderr, "rotorq-sim: cannot read {}\n", path);
-      return 2;
-    }
-    const std::string updated = with_table(readme, table);
-    if (updated.empty()) {
-      fmt::print(stderr, "rotorq-sim: {} has no simulation-table markers\n", path);
-      return 2;
-    }
-    if (path == write_readme) {
-      std::ofstream(path, std::ios::binary) << updated;
-      fmt::print("wrote the simulation table into {}\n", path);
-    } else if (updated != readme) {
-      fmt::print(stderr,
-                 "rotorq-sim: the simulation table in {} is out of date; regenerate it with "
-                 "bash scripts/simulate --write-readme {}\n",
-                 path, path);
-      return 3;
-    } else {
-      fmt::print("the simulation table in {} matches this run\n", path);
-    }
+  if (const int status =
+          rotorq::tools::readme_step("rotorq-sim", "simulation", write_readme, check_readme, begin_marker,
+                                     end_marker, table, "bash scripts/simulate --write-readme");
+      status != 0) {
+    return status;
   }
   return 0;
 }

@@ -20,7 +20,6 @@
 #include <chrono>
 #include <cmath>
 #include <cstdlib>
-#include <cstring>
 #include <filesystem>
 #include <fstream>
 #include <nlohmann/json.hpp>
@@ -31,6 +30,7 @@
 #include "rotorq/accuracy/sweeps.hpp"
 #include "rotorq/detail/newton.hpp"
 #include "rotorq/detail/sine_table.hpp"
+#include "rotorq/tools/readme_table.hpp"
 
 namespace {
 
@@ -318,23 +318,6 @@ void write_summary(const std::filesystem::path& path, const std::string& table,
   if (plots.empty()) out.print("(No plots: gnuplot was not found or failed.)\n");
 }
 
-bool read_file(const std::string& path, std::string& text) {
-  std::ifstream in(path, std::ios::binary);
-  if (!in) return false;
-  std::ostringstream buffer;
-  buffer << in.rdbuf();
-  text = buffer.str();
-  return true;
-}
-
-std::string with_table(const std::string& readme, const std::string& table) {
-  const size_t begin = readme.find(begin_marker);
-  const size_t end = readme.find(end_marker);
-  if (begin == std::string::npos || end == std::string::npos || end < begin) return {};
-  const size_t after_begin = begin + std::strlen(begin_marker);
-  return readme.substr(0, after_begin) + "\n" + table + readme.substr(end);
-}
-
 void draw_progress(double fraction) {
   const int width = 40;
   const int filled = static_cast<int>(fraction * width);
@@ -429,31 +412,10 @@ static int run(int argc, char** argv) {
     }
   }
 
-  for (const std::string& path : {write_readme, check_readme}) {
-    if (path.empty()) continue;
-    std::string readme;
-    if (!read_file(path, readme)) {
-      fmt::print(stderr, "rotorq-accuracy: cannot read {}\n", path);
-      return 2;
-    }
-    const std::string updated = with_table(readme, table);
-    if (updated.empty()) {
-      fmt::print(stderr, "rotorq-accuracy: {} has no accuracy-table markers\n", path);
-      return 2;
-    }
-    if (path == write_readme) {
-      std::ofstream(path, std::ios::binary) << updated;
-      fmt::print("wrote the accuracy table into {}\n", path);
-    } else if (updated != readme) {
-      fmt::print(stderr,
-                 "rotorq-accuracy: the accuracy table in {} is out of date; regenerate it with "
-                 "rotorq-accuracy --no-report --write-readme {}\n",
-                 path, path);
-      return 3;
-    } else {
-      fmt::print("the accuracy table in {} matches this run\n", path);
-    }
-  }
+  const int readme =
+      rotorq::tools::readme_step("rotorq-accuracy", "accuracy", write_readme, check_readme, begin_marker,
+                                 end_marker, table, "rotorq-accuracy --no-report --write-readme");
+  if (readme != 0) return readme;
   return status;
 }
 

@@ -36,6 +36,8 @@
 #include <string>
 #include <vector>
 
+#include "rotorq/tools/readme_table.hpp"
+
 namespace {
 
 using json = nlohmann::ordered_json;
@@ -866,14 +868,13 @@ std::string markdown(const json& results) {
 // ---- the README and the baseline ----------------------------------------------------------------------
 
 std::string replace_readme_table(const std::string& readme, const std::string& table) {
-  const auto b = readme.find(readme_begin);
-  const auto e = readme.find(readme_end);
-  if (b == std::string::npos || e == std::string::npos || e < b) {
+  const std::optional<std::string> updated =
+      rotorq::tools::with_table(readme, readme_begin, readme_end, table);
+  if (!updated) {
     throw std::runtime_error(std::string("the README has no ") + readme_begin + " ... " + readme_end +
                              " markers");
   }
-  const size_t start = b + std::string(readme_begin).size();
-  return readme.substr(0, start) + "\n" + table + readme.substr(e);
+  return *updated;
 }
 
 json baseline_of(const json& results) {
