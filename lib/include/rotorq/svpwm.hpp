@@ -59,17 +59,33 @@ struct modulation {
 
 namespace detail {
 
-// Sector k covers [(k-1) 60, k 60) degrees: compare the phase voltages pairwise (no overflow, no
-// difference formed).
-constexpr uint8_t sector_of(const phases<int64_t>& w) noexcept {
-  const int64_t a = w.a, b = w.b, c = w.c;
-  if (a > b && b >= c) return 1;
-  if (b >= a && a > c) return 2;
-  if (b > c && c >= a) return 3;
-  if (c >= b && b > a) return 4;
-  if (c > a && a >= b) return 5;
-  if (a >= c && c > b) return 6;
-  return 1;  // all equal: the zero vector
+// The order of the three phase voltages, from their six strict pairwise comparisons (no difference
+// formed, so nothing overflows): the largest, the smallest (either of two equal values: they are the
+// same number) and the sector. Sector k covers [(k-1) 60, k 60) degrees of the voltage's angle.
+struct phase_order {
+  int64_t high;
+  int64_t low;
+  uint8_t sector;
+};
+constexpr phase_order order_of(const phases<int64_t>& w) noexcept {
+  const bool ab = w.a > w.b, ba = w.b > w.a;
+  const bool bc = w.b > w.c, cb = w.c > w.b;
+  const bool ca = w.c > w.a, ac = w.a > w.c;
+  phase_order o{ab ? (ac ? w.a : w.c) : (bc ? w.b : w.c), ab ? (bc ? w.c : w.b) : (ac ? w.c : w.a), 1};
+  if (ab && !cb) {
+    o.sector = 1;  // a > b >= c
+  } else if (!ab && ac) {
+    o.sector = 2;  // b >= a > c
+  } else if (bc && !ac) {
+    o.sector = 3;  // b > c >= a
+  } else if (!bc && ba) {
+    o.sector = 4;  // c >= b > a
+  } else if (ca && !ba) {
+    o.sector = 5;  // c > a >= b
+  } else if (!ca && cb) {
+    o.sector = 6;  // a >= c > b
+  }                // else all equal: the zero vector, sector 1
+  return o;
 }
 
 // A wide duty (1 = 2^(F+31)) to fixed<F>, rounded once and clamped to [0, max].
@@ -97,12 +113,12 @@ constexpr modulation<fixed<F>> svpwm(stationary<fixed<F>> v,
     was_limited = l.clipped;
   }
   const phases<int64_t> w = detail::inverse_clarke_wide(v);  // |w| <= 1.37 2^(F+31)
-  const int64_t high = w.a > w.b ? (w.a > w.c ? w.a : w.c) : (w.b > w.c ? w.b : w.c);
-  const int64_t low = w.a < w.b ? (w.a < w.c ? w.a : w.c) : (w.b < w.c ? w.b : w.c);
+  const detail::phase_order order = detail::order_of(w);
+  const int64_t high = order.high, low = order.low;
   const int64_t middle = detail::half_sum(high, low);        // floor((max + min) / 2)
   const int64_t half_spread = detail::half_sum(high, -low);  // floor((max - min) / 2)
   const int64_t half = detail::pow2(F + 30);                 // 1/2 in wide units
-  const uint8_t sector = detail::sector_of(w);
+  const uint8_t sector = order.sector;
 
   if (mode == overmodulation::hexagon && half_spread > half) {
     // Beyond the hexagon: duty_x = 1/2 + (v_x - middle) / spread, spread = max - min in (1, 2.8).
@@ -128,7 +144,7 @@ constexpr modulation<fixed<F>> sine_pwm(stationary<fixed<F>> v) noexcept {
   const int64_t one = 2 * half;
   const bool clamped = w.a < -half || w.a > half || w.b < -half || w.b > half || w.c < -half || w.c > half;
   const auto duty = [&](int64_t x) { return detail::duty_from_wide<F>(half + x < one ? half + x : one); };
-  return {{duty(w.a), duty(w.b), duty(w.c)}, detail::sector_of(w), clamped};
+  return {{duty(w.a), duty(w.b), duty(w.c)}, detail::order_of(w).sector, clamped};
 }
 
 template <int F>
