@@ -3,13 +3,12 @@
 #include <rotorq/rotorq.hpp>
 using namespace rotorq;
 
-// Per unit: currents of the sensor's full scale, voltages of the bus measurement's (1.0 = 100 V,
-// say). The gains are placeholders for the drive's own: kp = 0.625, ki = 0.625 / 32 per period.
-pi_regulator<q15> id_loop({q15::from_raw(20480), 0}, {q15::from_raw(20480), -5});
-pi_regulator<q15> iq_loop({q15::from_raw(20480), 0}, {q15::from_raw(20480), -5});
-
-// Called from the PWM interrupt.
+// Called from the PWM interrupt. Per unit: currents of the sensor's full scale, voltages of the bus
+// measurement's (1.0 = 100 V, say).
 compare_values current_step(phases<q15> i_abc, turn16 rotor_angle, q15 v_bus, rotating<q15> i_dq_ref) {
+  // gains are placeholders for the drive's own: kp = 0.625, ki = 0.625 / 32 per period
+  static pi_regulator<q15> id_loop({q15::from_raw(20480), 0}, {q15::from_raw(20480), -5});
+  static pi_regulator<q15> iq_loop({q15::from_raw(20480), 0}, {q15::from_raw(20480), -5});
   static bus_normalizer<q15> bus(q15::from_raw(1638));  // below 5% of full scale: zero output
   bus.update(v_bus);                                    // one reciprocal per sample
 

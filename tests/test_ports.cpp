@@ -8,6 +8,7 @@
 //
 // The generic definitions are themselves checked against exact arithmetic in __int128 here, so a
 // port is compared with a specification, not with itself.
+// NOLINTNEXTLINE(cppcoreguidelines-macro-usage): the configuration macro the port headers read
 #define ROTORQ_PORT_ISA_MODEL 1
 
 #include <gtest/gtest.h>
@@ -203,6 +204,7 @@ void expect_port_matches_generic() {
 }
 
 // Adapters: a port namespace as a type, so one template checks them all.
+// NOLINTNEXTLINE(cppcoreguidelines-macro-usage): a namespace cannot be a template argument
 #define ROTORQ_PORT_ADAPTER(name, ns)                                                                    \
   struct name {                                                                                          \
     static int16_t sat16(int32_t v) { return ns::sat16(v); }                                             \

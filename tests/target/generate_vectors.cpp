@@ -7,6 +7,7 @@
 // the library's results change and the file was not regenerated); OUT.csv lists every explicit case
 // with its inputs and outputs in hex, for reading.
 #include <cstdio>
+#include <fstream>
 #include <string>
 #include <vector>
 
@@ -76,18 +77,14 @@ int main(int argc, char** argv) {
   text += "\n};\n\ninline constexpr entry entries[] = {\n" + entries +
           "};\n\n}  // namespace rotorq::vectors::golden\n";
 
-  std::FILE* file = std::fopen(argv[1], "w");
-  if (file == nullptr || std::fputs(text.c_str(), file) < 0 || std::fclose(file) != 0) {
-    std::fprintf(stderr, "rotorq-vectors: cannot write %s\n", argv[1]);
-    return 1;
-  }
-  if (argc == 3) {
-    std::FILE* table = std::fopen(argv[2], "w");
-    if (table == nullptr || std::fputs(csv.c_str(), table) < 0 || std::fclose(table) != 0) {
-      std::fprintf(stderr, "rotorq-vectors: cannot write %s\n", argv[2]);
-      return 1;
-    }
-  }
+  const auto write = [](const char* path, const std::string& content) {
+    std::ofstream out(path, std::ios::binary);
+    out << content;
+    out.close();
+    if (!out) std::fprintf(stderr, "rotorq-vectors: cannot write %s\n", path);
+    return static_cast<bool>(out);
+  };
+  if (!write(argv[1], text) || (argc == 3 && !write(argv[2], csv))) return 1;
   std::printf("rotorq-vectors: %u groups, %u explicit cases, %u bulk cases\n", group_count, explicit_total,
               bulk_total);
   return 0;

@@ -6,6 +6,7 @@
 // check per explicit case and one per bulk run; it prints each mismatch, then `N passed, N failed`,
 // and returns 0 only if nothing failed. Freestanding: <stdint.h>, <stdio.h> (printf, through
 // semihosting on the emulated cores) and the library.
+#include <stddef.h>
 #include <stdint.h>
 #include <stdio.h>
 
@@ -51,7 +52,7 @@ int main() {
       uint32_t out[max_outputs] = {};
       explicit_inputs(g, j, in);
       grp.apply(in, out);
-      const uint32_t* expected = golden::words + e.first_word + j * grp.output_count;
+      const uint32_t* expected = golden::words + e.first_word + static_cast<size_t>(j) * grp.output_count;
       bool same = true;
       for (int w = 0; w < grp.output_count; ++w) same = same && out[w] == expected[w];
       if (same) {

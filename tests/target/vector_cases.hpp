@@ -58,11 +58,11 @@ inline constexpr int max_outputs = 4;
 using apply_function = void (*)(const uint32_t* in, uint32_t* out);
 
 struct group {
-  const char* name;
-  uint8_t input_count;
-  kind inputs[max_inputs];
-  uint8_t output_count;
-  apply_function apply;
+  const char* name = nullptr;
+  uint8_t input_count = 0;
+  kind inputs[max_inputs] = {};
+  uint8_t output_count = 0;
+  apply_function apply = nullptr;
   uint32_t bulk = 4096;
   bool sequential = false;
 };
@@ -497,6 +497,7 @@ constexpr void hall_script(uint32_t seed, uint32_t count, Sample on_sample) noex
     if ((r & 1023u) == 1) speed = 0;                                     // a stop
     angle += static_cast<uint32_t>(speed) * period;
     time += period;
+    // cppcheck-suppress shiftTooManyBits ; the product is a 64-bit value
     uint8_t code = hall_code(static_cast<uint8_t>((uint64_t{angle} * 6) >> 32));  // the rotor's sector
     if ((r & 0x3f00u) == 0x100u)
       code = static_cast<uint8_t>((r >> 16) & 7u);  // a bounce or an impossible code
@@ -599,6 +600,9 @@ constexpr kind k() noexcept {
   return F == 15 ? kind::q15 : kind::q31;
 }
 
+// The groups of one format and of one angle width, as macros because each name is a string literal
+// pasted from the width.
+// NOLINTNEXTLINE(cppcoreguidelines-macro-usage)
 #define ROTORQ_FIXED_GROUPS(F)                                                                               \
   group{"q" #F "_add", 2, {k<F>(), k<F>()}, 1, fixed_cases<F>::add},                                         \
       group{"q" #F "_sub", 2, {k<F>(), k<F>()}, 1, fixed_cases<F>::sub},                                     \
@@ -626,7 +630,7 @@ constexpr kind k() noexcept {
           "q" #F "_inverse_park", 4, {k<F>(), k<F>(), k<F>(), k<F>()}, 2, transform_cases<F>::inverse_park}, \
       group{"q" #F "_chain",                                                                                 \
             4,                                                                                               \
-            {k<F>(), k<F>(), k<F>(), F == 15 ? kind::turn16 : kind::turn32},                                 \
+            {k<F>(), k<F>(), k<F>(), (F) == 15 ? kind::turn16 : kind::turn32},                               \
             4,                                                                                               \
             transform_cases<F>::chain},                                                                      \
       group{"q" #F "_svpwm_circle", 2, {k<F>(), k<F>()}, 4, transform_cases<F>::svpwm_circle},               \
@@ -660,6 +664,7 @@ constexpr kind k() noexcept {
     "q" #F "_pi_regulator", 2, {kind::word, k<F>()}, 4, transform_cases<F>::pi, 256                          \
   }
 
+// NOLINTNEXTLINE(cppcoreguidelines-macro-usage)
 #define ROTORQ_TURN_GROUPS(N)                                                                               \
   group{"turn" #N "_add", 2, {kind::turn##N, kind::turn##N}, 1, turn_cases<N>::add},                        \
       group{"turn" #N "_sub", 2, {kind::turn##N, kind::turn##N}, 1, turn_cases<N>::sub},                    \
@@ -667,7 +672,7 @@ constexpr kind k() noexcept {
       group{                                                                                                \
           "turn" #N "_signed_difference", 2, {kind::turn##N, kind::turn##N}, 1, turn_cases<N>::difference}, \
       group {                                                                                               \
-    "turn" #N "_advance", 2, {kind::turn##N, N == 16 ? kind::q15 : kind::q31}, 1, turn_cases<N>::advance    \
+    "turn" #N "_advance", 2, {kind::turn##N, (N) == 16 ? kind::q15 : kind::q31}, 1, turn_cases<N>::advance  \
   }
 
 inline constexpr group groups[] = {

@@ -70,12 +70,16 @@ constexpr int32_t shift31_saturated(halves h) noexcept {
 // low 32 bits (Armv6-M's MULS). a = ah 2^16 + al with ah signed and 0 <= al < 2^16, likewise b:
 // |ah bh| <= 2^30, |ah bl|, |al bh| < 2^31, al bl < 2^32, so no partial product overflows.
 constexpr int64_t mul_wide_16x16(int32_t a, int32_t b) noexcept {
+  // an arithmetic right shift (implementation-defined, checked in detail/integer.hpp)
+  // cppcheck-suppress shiftNegativeLHS
   const int32_t ah = a >> 16;
   const int32_t bh = b >> 16;
   const uint32_t al = static_cast<uint32_t>(a) & 0xffffu;
   const uint32_t bl = static_cast<uint32_t>(b) & 0xffffu;
+  // cppcheck-suppress unreadVariable ; read in the return statement
   const int32_t high = ah * bh;
-  const int64_t middle = int64_t{ah * static_cast<int32_t>(bl)} + int64_t{static_cast<int32_t>(al) * bh};
+  const int64_t middle = static_cast<int64_t>(ah * static_cast<int32_t>(bl)) +
+                         static_cast<int64_t>(static_cast<int32_t>(al) * bh);
   const uint32_t low = al * bl;
   return int64_t{high} * pow2(32) + middle * pow2(16) + int64_t{low};
 }
@@ -84,8 +88,8 @@ constexpr int64_t mul_wide_16x16(int32_t a, int32_t b) noexcept {
 constexpr uint64_t mul_wide_u32_16x16(uint32_t a, uint32_t b) noexcept {
   const uint32_t ah = a >> 16, al = a & 0xffffu;
   const uint32_t bh = b >> 16, bl = b & 0xffffu;
-  const uint64_t middle = uint64_t{ah * bl} + uint64_t{al * bh};
-  return (uint64_t{ah * bh} << 32) + (middle << 16) + uint64_t{al * bl};
+  const uint64_t middle = static_cast<uint64_t>(ah * bl) + static_cast<uint64_t>(al * bh);
+  return (static_cast<uint64_t>(ah * bh) << 32) + (middle << 16) + static_cast<uint64_t>(al * bl);
 }
 
 // The exact product written as Armv7-M's SMULL, for products by a constant, which GCC would expand
