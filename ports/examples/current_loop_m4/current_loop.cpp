@@ -5,6 +5,7 @@
 
 #include "rotorq/clarke.hpp"
 #include "rotorq/park.hpp"
+#include "rotorq/pi_regulator.hpp"
 #include "rotorq/pwm_compare.hpp"
 #include "rotorq/sin_cos.hpp"
 #include "rotorq/svpwm.hpp"
@@ -21,38 +22,19 @@ namespace {
 // tracker's estimate would: 164 / 65536 of a turn per 50 us is 50 Hz electrical.
 constexpr int16_t angle_step = 164;
 
-// A proportional-integral regulator, local to this example. Per period
-//   integral <- clamp(integral + ki e, -limit, limit)     (q31, so small errors still add up)
-//   output    = clamp(integral + kp e, -limit, limit)
-// with saturating arithmetic throughout; clamping the integral is the anti-windup, so an output held
-// at its limit for any time recovers as soon as the error changes sign.
-struct pi_regulator {
-  q15 kp;
-  q15 ki;
-  q31 integral;
-
-  q15 update(q15 error, q15 limit) noexcept {
-    const q31 wide_limit = rotorq::to_q31(limit);
-    integral = clamp(integral + rotorq::to_q31(ki) * rotorq::to_q31(error), -wide_limit, wide_limit);
-    return clamp(rotorq::to_q15(integral) + kp * error, -limit, limit);
-  }
-
-  template <typename Q>
-  static Q clamp(Q x, Q low, Q high) noexcept {
-    return x < low ? low : (x > high ? high : x);
-  }
-};
-
-// Gains for the inductance and resistance of the motor (per unit of the ADC's full-scale current and
-// the bus voltage, per period): kp = 0.75, ki = 1/32.
-constexpr pi_regulator regulator_tuning{q15::from_raw(24576), q15::from_raw(1024), q31::zero()};
+// The current regulators (rotorq/pi_regulator.hpp), tuned for the inductance and resistance of the
+// motor (per unit of the ADC's full-scale current and the bus voltage, per period): kp = 0.75,
+// ki = 1/32, output within +-voltage_limit; conditional integration keeps the integrators from
+// winding up while the output is held at the limit.
+constexpr rotorq::pi_regulator<q15> regulator_tuning{
+    {q15::from_raw(24576), 0}, {q15::from_raw(16384), -4}, -voltage_limit, voltage_limit};
 
 // Everything the interrupt keeps between periods. Constant-initialised: no constructor runs.
 struct loop_state {
   rotorq::turn16 angle;
   volatile uint32_t reference;  // i_d (low half) and i_q (high half): one store, never torn
-  pi_regulator d;
-  pi_regulator q;
+  rotorq::pi_regulator<q15> d;
+  rotorq::pi_regulator<q15> q;
   telemetry last;
 };
 loop_state state{rotorq::turn16{}, 0, regulator_tuning, regulator_tuning, telemetry{}};
@@ -85,8 +67,8 @@ extern "C" void current_loop_pwm_isr(void) {
 
   const rotorq::sin_cos_pair<q15> angle = rotorq::sin_cos(state.angle);  // once, for both Parks
   const rotorq::rotating<q15> i_dq = rotorq::park(rotorq::clarke(i_abc), angle);
-  const rotorq::rotating<q15> v_request{state.d.update(low_half(reference) - i_dq.d, voltage_limit),
-                                        state.q.update(high_half(reference) - i_dq.q, voltage_limit)};
+  const rotorq::rotating<q15> v_request{state.d.update(low_half(reference), i_dq.d),
+                                        state.q.update(high_half(reference), i_dq.q)};
   const rotorq::limited<rotorq::rotating<q15>> v_dq = rotorq::limit_magnitude(v_request, voltage_limit);
   const rotorq::modulation<q15> m =
       rotorq::svpwm(rotorq::inverse_park(v_dq.value, angle), rotorq::overmodulation::circle);
@@ -97,5 +79,8 @@ extern "C" void current_loop_pwm_isr(void) {
   board_pwm.compare[2] = c.compare.c;
 
   state.angle = rotorq::advance(state.angle, angle_step);
-  state.last = telemetry{i_dq, v_dq.value, {state.d.integral, state.q.integral}, v_dq.clipped};
+  state.last = telemetry{i_dq,
+                         v_dq.value,
+                         {rotorq::to_q31(state.d.integrator()), rotorq::to_q31(state.q.integrator())},
+                         v_dq.clipped};
 }
