@@ -104,6 +104,10 @@ position_sample<16> position_samples16[calls];
 position_sample<32> position_samples32[calls];
 uint16_t times16[calls];
 uint32_t times32[calls];
+sector_sample<16> sector_samples16[calls];
+sector_sample<32> sector_samples32[calls];
+motion_input motions[calls];
+handover_sample handover_samples[calls];
 float_input float_inputs[calls];
 
 template <int F>
@@ -132,6 +136,21 @@ void make_inputs(fixed_input<F>* table, uint32_t seed) {
     x.duty = {edge ? value<F>(rng, 0.0, 0.01) : value<F>(rng, 0.0, 1.0), value<F>(rng, 0.0, 1.0),
               edge ? value<F>(rng, 0.99, 1.0) : value<F>(rng, 0.0, 1.0)};
   }
+  // The later fields from a generator of their own, so that the earlier ones stay as they were.
+  random_words more{seed ^ 0x5bd1e995u};
+  for (uint32_t k = 0; k < calls; ++k) {
+    fixed_input<F>& x = table[k];
+    // a reference and a measured current; every fourth pair at full scale, which saturates the output
+    x.reference = value<F>(more, -0.7, 0.7);
+    x.measured = value<F>(more, -0.6, 0.6);
+    if ((k & 3u) == 3) {
+      x.reference = (k & 4u) == 0 ? Q::max() : Q::min();
+      x.measured = (k & 4u) == 0 ? Q::min() : Q::max();
+    }
+    x.sector = static_cast<uint8_t>(more.next() & 7u);
+    x.torque = (k & 7u) == 5 ? rotation::unknown
+                             : ((more.next() & 1u) != 0 ? rotation::forward : rotation::backward);
+  }
 }
 
 void make_float_inputs() {
@@ -150,6 +169,79 @@ void make_float_inputs() {
     f.sin = real(x.pair.sin);
     f.cos = real(x.pair.cos);
     f.theta = static_cast<float>(x.angle.raw()) * (two_pi / 4294967296.0f);
+    f.limit = real(x.limit);
+    f.reference = real(x.reference);
+    f.measured = real(x.measured);
+    const motion_input& m = motions[k];
+    f.steps = m.steps;
+    f.ticks = m.ticks == 0 ? 1u : static_cast<uint32_t>(m.ticks);
+    f.speed = static_cast<float>(m.speed.raw()) * (1.0f / 281474976710656.0f);  // 2^-48 turn per tick
+  }
+}
+
+// Motions of a sector up to a turn (the intervals a Hall tracker measures) over 200 .. 200000 ticks
+// of a 1 MHz timer, speeds up to 2^40 raw (about 120000 rpm at 2 pole pairs), and every Hall code.
+// Every eighth motion takes no time (speed 0) and comes with a speed of 0; every eighth other one is a
+// huge motion in one tick and comes with the largest speed (both saturate).
+void make_motions() {
+  random_words rng{0x13579bdfu};
+  for (uint32_t k = 0; k < calls; ++k) {
+    motion_input& m = motions[k];
+    const bool backward = (rng.next() & 1u) != 0;
+    const int64_t steps = int64_t{715827883} * (1 + rng.next() % 6u);  // 1 .. 6 sixths of a turn
+    m.steps = backward ? -steps : steps;
+    m.ticks = 200u + rng.next() % 199801u;
+    const int64_t magnitude = rng.next();
+    const int64_t speed = magnitude << (rng.next() % 9u);
+    m.speed = electrical_speed::from_raw(backward ? -speed : speed);
+    if ((k & 7u) == 0) {
+      m.ticks = 0;
+      m.speed = electrical_speed::zero();
+    } else if ((k & 7u) == 4) {
+      m.steps = int64_t{1} << 40;
+      m.ticks = 1;
+      m.speed = electrical_speed::from_raw(electrical_speed::raw_max);
+    }
+    m.code = static_cast<uint8_t>(k & 7u);
+  }
+}
+
+// The decoded sectors of a rotor at constant speed read at the PWM rate (50 ticks per period), a
+// sector every eighth period, with a one-period bounce back to the previous sector every sixteenth
+// period; the filter asks for 100 ticks (two periods), so it drops the bounces and accepts each edge
+// at its third reading. It runs 240 samples before the region.
+template <int TimerBits>
+void make_sector_samples(sector_sample<TimerBits>* table, hall_glitch_filter<TimerBits>& filter) {
+  using time_type = typename detail::timer_traits<TimerBits>::time_type;
+  const uint32_t step = 0x05555555u;  // a sixth of a turn per 8 periods
+  uint32_t angle = 0x01000000u, time = 0xfff00000u;
+  for (int k = -240; k < static_cast<int>(calls); ++k) {
+    angle += step;
+    time += 50u;
+    auto sector = static_cast<uint8_t>((uint64_t{angle} * 6u) >> 32);
+    if ((k & 15) == 9) sector = sector == 0 ? 5 : static_cast<uint8_t>(sector - 1);
+    const sector_sample<TimerBits> s{sector, static_cast<time_type>(time)};
+    if (k < 0) {
+      filter.update(s.sector, s.time);
+    } else {
+      table[k] = s;
+    }
+  }
+}
+
+// A rotor that speeds up from 5/8 of the hand-over's FOC speed to 4/3 of it over 16 PWM
+// periods and slows down again: six-step, the switch to FOC and the blend of the offset, the turn
+// back toward the six-step vector below the lower speed. Torque forward, once backward, and unknown
+// in the last period (all phases floating).
+void make_handover_samples() {
+  uint32_t angle = 0x0d000000u;
+  for (uint32_t k = 0; k < calls; ++k) {
+    const uint32_t ramp = k < calls / 2 ? k : calls - 1 - k;  // 0 .. 15 .. 0
+    const uint32_t step = 0x00280000u + 0x00030000u * ramp;   // turn32 steps per period of 50 ticks
+    angle += step;
+    handover_samples[k] = {
+        turn32::from_raw(angle), electrical_speed::from_raw(int64_t{step} * 65536 / 50),
+        k == 20 ? rotation::backward : (k == calls - 1 ? rotation::unknown : rotation::forward)};
   }
 }
 
@@ -159,7 +251,7 @@ void make_float_inputs() {
 template <int TimerBits>
 void make_hall_samples(hall_sample<TimerBits>* table, hall_tracker<TimerBits>& tracker) {
   using time_type = typename detail::timer_traits<TimerBits>::time_type;
-  const uint32_t step = 0x05555555u / 8u;  // a sixth of a turn per 8 periods
+  const uint32_t step = 0x05555555u;  // 1/48 turn per period: a sixth of a turn (a Hall edge) per 8 periods
   uint32_t angle = 0x01000000u, time = 0xfff00000u;
   for (int k = -240; k < static_cast<int>(calls); ++k) {
     angle += step;
@@ -220,6 +312,14 @@ table_view table_of(int group) {
       return view(times16);
     case time_t32:
       return view(times32);
+    case sector_t16:
+      return view(sector_samples16);
+    case sector_t32:
+      return view(sector_samples32);
+    case motion_group:
+      return view(motions);
+    case handover_group:
+      return view(handover_samples);
     default:
       return view(float_inputs);
   }
@@ -238,7 +338,7 @@ extern "C" __attribute__((noinline, noipa, used)) void rotorq_cycles_end() {
 
 // Cycle counts per region (ROTORQ_CYCLES_HW_COUNTER), for a debugger; index as printed.
 extern "C" {
-__attribute__((used)) uint32_t rotorq_cycles_counts[64];
+__attribute__((used)) uint32_t rotorq_cycles_counts[128];
 __attribute__((used)) volatile uint32_t rotorq_cycles_regions = 0;
 // A place for a breakpoint: every region has run.
 __attribute__((noinline, noipa, used)) void rotorq_cycles_done() { __asm__ volatile("" ::: "memory"); }
@@ -279,11 +379,15 @@ void region(const char* function, const char* format, kernel k, int group) {
 int main() {
   make_inputs<15>(inputs15, 0x9e3779b9u);
   make_inputs<31>(inputs31, 0x85ebca6bu);
+  make_motions();
   make_float_inputs();
   make_hall_samples<16>(hall_samples16, hall16);
   make_hall_samples<32>(hall_samples32, hall32);
   make_position_samples<16>(position_samples16, times16, position16);
   make_position_samples<32>(position_samples32, times32, position32);
+  make_sector_samples<16>(sector_samples16, glitch16);
+  make_sector_samples<32>(sector_samples32, glitch32);
+  make_handover_samples();
   bus_q15.update(q15::from_raw(26214));  // 0.8
   bus_q31.update(q31::from_raw(1717986918));
   counter_start();

@@ -669,23 +669,45 @@ json evaluate_targets(const json& results) {
 }
 
 const std::vector<std::pair<std::string, std::string>> function_rows = {
+    {"add", "`a + b`"},
+    {"subtract", "`a - b`"},
     {"multiply", "`a * b`"},
     {"mul_add", "`mul_add`"},
+    {"accumulator", "`accumulator` mac + msc + add + result"},
     {"sin_cos", "`sin_cos`"},
     {"clarke", "`clarke`"},
+    {"clarke_balanced", "`clarke_balanced`"},
+    {"clarke_power_invariant", "`clarke_power_invariant`"},
     {"inverse_clarke", "`inverse_clarke`"},
+    {"inverse_clarke_power_invariant", "`inverse_clarke_power_invariant`"},
     {"park", "`park`"},
     {"inverse_park", "`inverse_park`"},
     {"svpwm_circle", "`svpwm` (circle)"},
+    {"svpwm_hexagon", "`svpwm` (hexagon)"},
+    {"sine_pwm", "`sine_pwm`"},
+    {"six_step", "`six_step`"},
     {"limit_magnitude", "`limit_magnitude`"},
+    {"limit_d_priority", "`limit_d_priority`"},
     {"bus_update", "`bus_normalizer::update`"},
     {"bus_normalize", "`bus_normalizer::normalize`"},
     {"duty_to_compare", "`duty_to_compare`"},
+    {"pi_regulator", "`pi_regulator::update`"},
     {"chain", "**chain**, inlined"},
+    {"decode_hall", "`decode_hall`"},
+    {"glitch_filter", "`hall_glitch_filter::update`"},
     {"hall_tracker", "`hall_tracker` update + estimate"},
     {"interpolator_update", "`angle_interpolator::update`"},
     {"interpolator_estimate", "`angle_interpolator::estimate`"},
+    {"speed_from_motion", "`speed_from_motion`"},
+    {"rpm_q8", "`rpm_scale::rpm_q8`"},
+    {"commutation", "`six_step_commutation` + `commutation_voltage`"},
+    {"foc_handover", "`foc_handover::update`"},
 };
+
+// A row's name: the label and the format; a function of integers only ("-") has no format.
+std::string row_name(const std::string& label, const std::string& format) {
+  return format == "-" ? label : label + " " + format;
+}
 
 std::string short_name(const json& core) {
   std::string n = core.at("name");
@@ -729,9 +751,9 @@ std::string markdown(const json& results) {
 
   md += header("function (format)");
   for (const auto& [function, label] : function_rows) {
-    for (const std::string format : {"q15", "q31", "t16", "t32"}) {
+    for (const std::string format : {"q15", "q31", "t16", "t32", "-"}) {
       bool any = false;
-      std::string row = "| " + label + " " + format + " |";
+      std::string row = "| " + row_name(label, format) + " |";
       for (const json& c : cores) {
         const json* f = find_function(c, function, format);
         any = any || f != nullptr;
@@ -746,7 +768,8 @@ std::string markdown(const json& results) {
       "M7 and "
       "M33, soft float elsewhere): float instructions / cycles, and how many times the fixed-point cycles "
       "that is "
-      "(float cycles / q15 cycles, float cycles / q31 cycles).\n\n";
+      "(float cycles / q15 cycles, float cycles / q31 cycles; one ratio for a function of integers "
+      "only).\n\n";
   md += header("function, float");
   for (const auto& [function, label] : function_rows) {
     bool any = false;
@@ -760,7 +783,7 @@ std::string markdown(const json& results) {
       any = true;
       const double fc = fl->at("O2").at("cycles").get<double>();
       std::string ratios;
-      for (const std::string format : {"q15", "q31"}) {
+      for (const std::string format : {"q15", "q31", "-"}) {
         const json* f = find_function(c, function, format);
         if (f == nullptr) continue;
         ratios += (ratios.empty() ? "" : " / ") +
@@ -787,9 +810,9 @@ std::string markdown(const json& results) {
     md += h + " tables |\n" + rule + "---|\n";
   }
   for (const auto& [function, label] : function_rows) {
-    for (const std::string format : {"q15", "q31", "t16", "t32", "float"}) {
+    for (const std::string format : {"q15", "q31", "t16", "t32", "-", "float"}) {
       bool any = false;
-      std::string row = "| " + label + " " + format + " |";
+      std::string row = "| " + row_name(label, format) + " |";
       std::string tables = "-";
       for (const json& c : cores) {
         const json* f = find_function(c, function, format);
@@ -833,9 +856,9 @@ std::string markdown(const json& results) {
     }
     md += h + "\n" + rule + "\n";
     for (const auto& [function, label] : function_rows) {
-      for (const std::string format : {"q15", "q31", "t16", "t32", "float"}) {
+      for (const std::string format : {"q15", "q31", "t16", "t32", "-", "float"}) {
         bool any = false;
-        std::string row = "| " + label + " " + format + " |";
+        std::string row = "| " + row_name(label, format) + " |";
         for (const json* c : mca_cores) {
           const json* f = find_function(*c, function, format);
           if (f == nullptr || !f->at("O2").contains("llvm_mca_cycles")) {

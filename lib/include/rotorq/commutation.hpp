@@ -33,6 +33,7 @@
 
 #include "rotorq/constants.hpp"
 #include "rotorq/detail/integer.hpp"
+#include "rotorq/detail/ops.hpp"
 #include "rotorq/electrical_speed.hpp"
 #include "rotorq/fixed.hpp"
 #include "rotorq/frames.hpp"
@@ -63,12 +64,21 @@ constexpr bool vector_angles_are_rounded() noexcept {  // checked once, by the c
   return true;
 }
 static_assert(vector_angles_are_rounded());
+// The phase drives of vector k, at namespace scope so that a call copies one entry, not the table.
+inline constexpr phase_drive drive_off = phase_drive::floating, drive_high = phase_drive::high,
+                             drive_low = phase_drive::low;
+inline constexpr phases<phase_drive> vector_drives[6] = {
+    {drive_high, drive_off, drive_low}, {drive_off, drive_high, drive_low},
+    {drive_low, drive_high, drive_off}, {drive_low, drive_off, drive_high},
+    {drive_off, drive_low, drive_high}, {drive_high, drive_low, drive_off}};
 }  // namespace detail
 
 // Sector k covers [60 k - 30, 60 k + 30) degrees.
 constexpr uint8_t commutation_sector(turn32 rotor_angle) noexcept {
   // 60 k - 30 <= 360 a / 2^32 < 60 k + 30  <=>  k = floor((12 a + 2^32) / 2^33), exactly (12 a + 2^32 < 2^36)
-  const auto k = static_cast<uint8_t>(((uint64_t{rotor_angle.raw()} * 12) + (uint64_t{1} << 32)) >> 33);
+  // (12 a is an exact 32 x 32 -> 64 product: no 64-bit multiply on a core without one)
+  const auto k =
+      static_cast<uint8_t>((detail::ops::mul_wide_u32(rotor_angle.raw(), 12) + (uint64_t{1} << 32)) >> 33);
   return static_cast<uint8_t>(k == 6 ? 0 : k);
 }
 
@@ -76,10 +86,7 @@ constexpr commutation_state six_step_commutation(uint8_t sector, rotation torque
   if (torque == rotation::unknown) return {};
   const uint8_t k =
       detail::modulo6(uint32_t{detail::modulo6(sector)} + (torque == rotation::forward ? 1u : 4u));
-  constexpr phase_drive f = phase_drive::floating, h = phase_drive::high, l = phase_drive::low;
-  constexpr phases<phase_drive> drives[6] = {{h, f, l}, {f, h, l}, {l, h, f},
-                                             {l, f, h}, {f, l, h}, {h, l, f}};
-  return {drives[k], k, true, turn32::from_raw(detail::vector_angle_raw[k])};
+  return {detail::vector_drives[k], k, true, turn32::from_raw(detail::vector_angle_raw[k])};
 }
 
 static_assert(commutation_sector(turn32::from_raw(0)) == 0 &&
@@ -94,12 +101,16 @@ constexpr stationary<fixed<F>> commutation_voltage(const commutation_state& stat
   const int64_t d = duty.raw() > 0 ? duty.raw() : 0;
   const auto k31 = static_cast<int64_t>(constants::inv_sqrt3 >> 31);  // 1/sqrt(3) in Q31
   const int64_t half = detail::round_shift(d, 1);                     // duty / 2
-  const int64_t slope = detail::round_shift(d * k31, 32);             // duty / (2 sqrt 3)
-  const int64_t full = detail::round_shift(d * k31, 31);              // duty / sqrt 3
-  const int64_t alpha[6] = {half, 0, -half, -half, 0, half};
-  const int64_t beta[6] = {slope, full, slope, -slope, -full, -slope};
-  return {fixed<F>::saturate(alpha[detail::modulo6(state.vector)]),
-          fixed<F>::saturate(beta[detail::modulo6(state.vector)])};
+  const int64_t product =
+      detail::ops::mul_wide(static_cast<int32_t>(d), static_cast<int32_t>(k31));  // < 2^62
+  const int64_t slope = detail::round_shift(product, 32);                         // duty / (2 sqrt 3)
+  const int64_t full = detail::round_shift(product, 31);                          // duty / sqrt 3
+  // vector k: alpha = {half, 0, -half, -half, 0, half}[k], beta = {slope, full, slope, -slope, -full,
+  // -slope}[k], picked without building the two tables on each call
+  const uint8_t k = detail::modulo6(state.vector);
+  const int64_t alpha = (k == 1 || k == 4) ? 0 : (k == 2 || k == 3 ? -half : half);
+  const int64_t beta = k == 1 ? full : (k == 4 ? -full : (k == 0 || k == 2 ? slope : -slope));
+  return {fixed<F>::saturate(alpha), fixed<F>::saturate(beta)};
 }
 
 enum class drive_mode : uint8_t { six_step, foc };
