@@ -12,6 +12,7 @@
 #pragma once
 
 #include "rotorq/detail/integer.hpp"
+#include "rotorq/detail/ops.hpp"
 #include "rotorq/fixed.hpp"
 
 namespace rotorq {
@@ -24,9 +25,9 @@ class accumulator {
   constexpr accumulator() noexcept = default;
 
   // += a * b
-  constexpr void mac(Q a, Q b) noexcept { add_wide(int64_t{a.raw()} * int64_t{b.raw()}); }
+  constexpr void mac(Q a, Q b) noexcept { add_wide(detail::ops::mul_wide(a.raw(), b.raw())); }
   // -= a * b
-  constexpr void msc(Q a, Q b) noexcept { add_wide(-(int64_t{a.raw()} * int64_t{b.raw()})); }
+  constexpr void msc(Q a, Q b) noexcept { add_wide(-detail::ops::mul_wide(a.raw(), b.raw())); }
   // += a (exact: a is scaled to the product format)
   constexpr void add(Q a) noexcept { add_wide(int64_t{a.raw()} * detail::pow2(Q::fraction_bits)); }
 

@@ -23,6 +23,7 @@
 
 #include "rotorq/detail/integer.hpp"
 #include "rotorq/detail/newton.hpp"
+#include "rotorq/detail/ops.hpp"
 #include "rotorq/detail/speed_math.hpp"
 
 namespace rotorq {
@@ -107,7 +108,7 @@ class rpm_scale {
   constexpr int32_t rpm_q8(electrical_speed speed) const noexcept {
     if (mantissa_ == 0 || speed.raw() == 0) return 0;
     const detail::mantissa32 s = detail::normalize32(speed.magnitude());
-    const uint64_t p = uint64_t{s.mantissa} * mantissa_;
+    const uint64_t p = detail::ops::mul_wide_u32(s.mantissa, mantissa_);
     // rpm * 256 = raw 2^-48 K 2^-24 2^8 = p 2^(e_s + e_k - 64)
     const int shift = 64 - s.exponent - exponent_;
     const uint64_t limit = 0x7fffffffu;

@@ -4,6 +4,7 @@
 
 #include "rotorq/detail/integer.hpp"
 #include "rotorq/detail/newton.hpp"
+#include "rotorq/detail/ops.hpp"
 
 namespace rotorq::detail {
 
@@ -34,8 +35,8 @@ constexpr uint64_t quotient_q16(uint64_t numerator, uint64_t denominator, uint64
   const mantissa32 n = normalize32(numerator);
   const mantissa32 d = normalize32(denominator);
   // 1 / (m_d 2^e_d) = r 2^(-62 - e_d) with r = 2^62 / m_d in (2^30, 2^31]
-  const uint64_t r = reciprocal_q30(d.mantissa);
-  const uint64_t p = uint64_t{n.mantissa} * r;  // < 2^63
+  const uint32_t r = reciprocal_q30(d.mantissa);
+  const uint64_t p = ops::mul_wide_u32(n.mantissa, r);  // < 2^63
   // quotient * 2^16 = p 2^(e_n - e_d - 62 + 16)
   const int shift = 46 - n.exponent + d.exponent;
   if (shift <= 0) return limit;  // p >= 2^61: far beyond any limit used here
@@ -45,9 +46,10 @@ constexpr uint64_t quotient_q16(uint64_t numerator, uint64_t denominator, uint64
 
 // floor(speed * ticks / 2^16) for speed < 2^47 and ticks < 2^32: the high and low parts of the speed
 // are multiplied separately so no product exceeds 2^63.
+// For a speed magnitude below 2^47 (an electrical_speed's), so that both parts are 32-bit values.
 constexpr uint64_t steps_in(uint64_t speed, uint32_t ticks) noexcept {
-  const uint64_t whole = (speed >> 16) * ticks;                 // < 2^31 * 2^32
-  const uint64_t fraction = ((speed & 0xffffu) * ticks) >> 16;  // < 2^32
+  const uint64_t whole = ops::mul_wide_u32(static_cast<uint32_t>(speed >> 16), ticks);  // < 2^31 * 2^32
+  const uint64_t fraction = ops::mul_wide_u32(static_cast<uint32_t>(speed & 0xffffu), ticks) >> 16;  // < 2^32
   return whole + fraction;
 }
 
