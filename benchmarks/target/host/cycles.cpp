@@ -734,12 +734,20 @@ std::string markdown(const json& results) {
       "measurements. Cortex-M7 and M33 cycles are upper estimates (dual issue not modelled).\n\n",
       results.at("calls_per_region").get<int>(), compilers);
 
-  const auto header = [&](const std::string& first) {
+  std::vector<const json*> all_cores;
+  for (const json& c : cores) all_cores.push_back(&c);
+  // A table's heading: the first column, one column per core, and an optional last text column.
+  const auto header = [](const std::string& first, const std::vector<const json*>& columns,
+                         const std::string& last = "") {
     std::string h = "| " + first + " |";
     std::string rule = "|---|";
-    for (const json& c : cores) {
-      h += " " + short_name(c) + " |";
+    for (const json* c : columns) {
+      h += " " + short_name(*c) + " |";
       rule += "---:|";
+    }
+    if (!last.empty()) {
+      h += " " + last + " |";
+      rule += "---|";
     }
     return h + "\n" + rule + "\n";
   };
@@ -749,7 +757,7 @@ std::string markdown(const json& results) {
     return number(x.at("instructions").get<double>()) + " / " + number(x.at("cycles").get<double>());
   };
 
-  md += header("function (format)");
+  md += header("function (format)", all_cores);
   for (const auto& [function, label] : function_rows) {
     for (const std::string format : {"q15", "q31", "t16", "t32", "-"}) {
       bool any = false;
@@ -770,7 +778,7 @@ std::string markdown(const json& results) {
       "that is "
       "(float cycles / q15 cycles, float cycles / q31 cycles; one ratio for a function of integers "
       "only).\n\n";
-  md += header("function, float");
+  md += header("function, float", all_cores);
   for (const auto& [function, label] : function_rows) {
     bool any = false;
     std::string row = "| " + label + " |";
@@ -800,15 +808,7 @@ std::string markdown(const json& results) {
       "counted "
       "apart (the last column: those of the first core that has any; rotorq's are the same on every "
       "core).\n\n";
-  {
-    std::string h = "| function (format) |";
-    std::string rule = "|---|";
-    for (const json& c : cores) {
-      h += " " + short_name(c) + " |";
-      rule += "---:|";
-    }
-    md += h + " tables |\n" + rule + "---|\n";
-  }
+  md += header("function (format)", all_cores, "tables");
   for (const auto& [function, label] : function_rows) {
     for (const std::string format : {"q15", "q31", "t16", "t32", "-", "float"}) {
       bool any = false;
@@ -848,13 +848,7 @@ std::string markdown(const json& results) {
     for (const json& c : cores) {
       if (mca_cpu(c.at("core"))) mca_cores.push_back(&c);
     }
-    std::string h = "| function (format) |";
-    std::string rule = "|---|";
-    for (const json* c : mca_cores) {
-      h += " " + short_name(*c) + " |";
-      rule += "---:|";
-    }
-    md += h + "\n" + rule + "\n";
+    md += header("function (format)", mca_cores);
     for (const auto& [function, label] : function_rows) {
       for (const std::string format : {"q15", "q31", "t16", "t32", "-", "float"}) {
         bool any = false;
